@@ -1,0 +1,87 @@
+using ShuntSweep.Core.Documents;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Core.Uut;
+
+namespace ShuntSweep.Core.Bench;
+
+/// <summary>Reads a bench file strictly; the <c>simulation</c> section and each instrument's settings are kept for their own layers to read.</summary>
+public static class BenchReader
+{
+    private static readonly Dictionary<string, InstrumentRole> RoleKeys = new(StringComparer.Ordinal)
+    {
+        ["supply"] = InstrumentRole.Supply,
+        ["load"] = InstrumentRole.Load,
+        ["dropMeter"] = InstrumentRole.DropMeter,
+        ["uutMeter"] = InstrumentRole.UutMeter,
+        ["reference"] = InstrumentRole.Reference,
+    };
+
+    /// <summary>The key a role has in the <c>instruments</c> mapping of a bench file.</summary>
+    public static string KeyOf(InstrumentRole role) => RoleKeys.First(kv => kv.Value == role).Key;
+
+    /// <summary>Loads the bench file at <paramref name="path"/>.</summary>
+    public static BenchDescription Load(string path)
+    {
+        var doc = YamlDocument.Load(path);
+        var name = doc.Text("bench");
+
+        UutDescription uut;
+        var uutNode = doc.Required("uut");
+        if (uutNode.IsMapping)
+        {
+            uut = UutReader.Read(uutNode.AsMapping());
+        }
+        else
+        {
+            var uutPath = Path.Combine(Path.GetDirectoryName(Path.GetFullPath(path)) ?? ".", uutNode.AsString());
+            if (!System.IO.File.Exists(uutPath))
+            {
+                throw uutNode.Error($"uut: the file '{uutNode.AsString()}' does not exist (looked for {uutPath}).");
+            }
+
+            uut = UutReader.Load(uutPath);
+        }
+
+        var supplyMap = doc.Mapping("supply") ?? throw doc.Error("the 'supply' settings (voltage, currentLimit, maxPower) are required.");
+        var supply = new SupplySettings(
+            new Voltage(supplyMap.Quantity("voltage", SiUnit.Volt)),
+            new Current(supplyMap.Quantity("currentLimit", SiUnit.Ampere)),
+            new Power(supplyMap.QuantityOr("maxPower", SiUnit.Watt, double.PositiveInfinity)));
+        supplyMap.Finish();
+
+        var loadMap = doc.Mapping("load") ?? throw doc.Error("the 'load' limits (minimumVoltage, maxCurrent, maxPower) are required.");
+        var load = new LoadSettings(
+            new Voltage(loadMap.Quantity("minimumVoltage", SiUnit.Volt)),
+            new Current(loadMap.Quantity("maxCurrent", SiUnit.Ampere)),
+            new Power(loadMap.QuantityOr("maxPower", SiUnit.Watt, double.PositiveInfinity)));
+        loadMap.Finish();
+
+        var wiring = new Resistance(doc.QuantityOr("wiring", SiUnit.Ohm, 0));
+
+        var instruments = new Dictionary<InstrumentRole, InstrumentEntry>();
+        var instrumentsMap = doc.Mapping("instruments") ?? throw doc.Error("the 'instruments' mapping (supply, load, dropMeter, uutMeter, reference) is required.");
+        foreach (var (key, value) in instrumentsMap.Entries())
+        {
+            if (!RoleKeys.TryGetValue(key, out var role))
+            {
+                throw value.Error($"instruments: unknown role '{key}'; expected one of {string.Join(", ", RoleKeys.Keys)}.");
+            }
+
+            var settings = value.AsMapping();
+            var resource = settings.Text("resource");
+            instruments[role] = new InstrumentEntry(role, resource, settings);
+        }
+
+        foreach (var needed in new[] { InstrumentRole.Supply, InstrumentRole.Load, InstrumentRole.DropMeter })
+        {
+            if (!instruments.ContainsKey(needed))
+            {
+                throw instrumentsMap.Error($"instruments: the role '{KeyOf(needed)}' is required.");
+            }
+        }
+
+        var simulation = doc.Mapping("simulation");
+        doc.Finish();
+        return new BenchDescription(name, path, uut, supply, load, wiring, instruments, simulation);
+    }
+}

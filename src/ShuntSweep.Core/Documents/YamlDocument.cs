@@ -1,0 +1,296 @@
+using ShuntSweep.Core.Quantities;
+using YamlDotNet.Core;
+using YamlDotNet.RepresentationModel;
+
+namespace ShuntSweep.Core.Documents;
+
+/// <summary>Loads a YAML file into a strict reader whose every error names file, line and column.</summary>
+public static class YamlDocument
+{
+    /// <summary>Loads the file at <paramref name="path"/>; its top level must be a mapping.</summary>
+    public static MappingReader Load(string path) => Parse(File.ReadAllText(path), path);
+
+    /// <summary>Parses YAML text; <paramref name="fileName"/> is used in messages only.</summary>
+    public static MappingReader Parse(string text, string fileName)
+    {
+        var stream = new YamlStream();
+        try
+        {
+            stream.Load(new StringReader(text));
+        }
+        catch (YamlException ex)
+        {
+            var problem = ex.InnerException?.Message ?? ex.Message;
+            var cut = problem.IndexOf("):", StringComparison.Ordinal);
+            if (problem.StartsWith("(Line", StringComparison.Ordinal) && cut > 0)
+            {
+                problem = problem[(cut + 2)..].Trim();
+            }
+
+            throw new DocumentException(fileName, (int)ex.Start.Line, (int)ex.Start.Column, $"not valid YAML: {problem}");
+        }
+
+        if (stream.Documents.Count == 0)
+        {
+            throw new DocumentException(fileName, 0, 0, "the file is empty; expected a mapping of keys.");
+        }
+
+        var root = stream.Documents[0].RootNode;
+        return root is YamlMappingNode map
+            ? new MappingReader(fileName, map, "document")
+            : throw new DocumentException(fileName, (int)root.Start.Line, (int)root.Start.Column, "expected a mapping of keys at the top of the file.");
+    }
+}
+
+/// <summary>One YAML value with its position, read strictly.</summary>
+public readonly struct NodeReader
+{
+    internal NodeReader(string file, YamlNode node, string what)
+    {
+        File = file;
+        Node = node;
+        What = what;
+    }
+
+    /// <summary>The file the node came from.</summary>
+    public string File { get; }
+
+    /// <summary>The underlying YAML node.</summary>
+    public YamlNode Node { get; }
+
+    /// <summary>A short description of the node for messages (its key path).</summary>
+    public string What { get; }
+
+    /// <summary>The 1-based line of the node.</summary>
+    public int Line => (int)Node.Start.Line;
+
+    /// <summary>The 1-based column of the node.</summary>
+    public int Column => (int)Node.Start.Column;
+
+    /// <summary>Builds an error positioned at this node.</summary>
+    public DocumentException Error(string problem) => new(File, Line, Column, problem);
+
+    /// <summary>The scalar text of the node.</summary>
+    public string AsString() =>
+        Node is YamlScalarNode { Value: { } v } ? v : throw Error($"{What}: expected a single value, found a {Kind(Node)}.");
+
+    /// <summary>The node as a quantity in <paramref name="unit"/> (SI value).</summary>
+    public double AsQuantity(SiUnit unit)
+    {
+        var text = AsString();
+        try
+        {
+            return QuantityParser.Parse(text, unit);
+        }
+        catch (FormatException ex)
+        {
+            throw Error($"{What}: {ex.Message}");
+        }
+    }
+
+    /// <summary>The node as a whole number within [<paramref name="min"/>, <paramref name="max"/>].</summary>
+    public int AsInt(int min = int.MinValue, int max = int.MaxValue)
+    {
+        var text = AsString();
+        if (!int.TryParse(text, System.Globalization.NumberStyles.Integer, System.Globalization.CultureInfo.InvariantCulture, out var v))
+        {
+            throw Error($"{What}: expected a whole number, found '{text}'.");
+        }
+
+        return v < min || v > max ? throw Error($"{What}: {v} is outside {min}…{max}.") : v;
+    }
+
+    /// <summary>The node as true/false (also yes/no, on/off).</summary>
+    public bool AsBool() => AsString().ToLowerInvariant() switch
+    {
+        "true" or "yes" or "on" => true,
+        "false" or "no" or "off" => false,
+        var other => throw Error($"{What}: expected true or false, found '{other}'."),
+    };
+
+    /// <summary>The node as a mapping.</summary>
+    public MappingReader AsMapping() =>
+        Node is YamlMappingNode map ? new MappingReader(File, map, What) : throw Error($"{What}: expected a mapping of keys, found a {Kind(Node)}.");
+
+    /// <summary>The node as a sequence of items.</summary>
+    public IReadOnlyList<NodeReader> AsSequence()
+    {
+        if (Node is not YamlSequenceNode seq)
+        {
+            throw Error($"{What}: expected a list, found a {Kind(Node)}.");
+        }
+
+        var file = File;
+        var what = What;
+        return seq.Children.Select((c, i) => new NodeReader(file, c, $"{what}[{i}]")).ToList();
+    }
+
+    /// <summary>True when the node is a mapping.</summary>
+    public bool IsMapping => Node is YamlMappingNode;
+
+    /// <summary>True when the node is a sequence.</summary>
+    public bool IsSequence => Node is YamlSequenceNode;
+
+    internal static string Kind(YamlNode node) => node switch
+    {
+        YamlMappingNode => "mapping",
+        YamlSequenceNode => "list",
+        _ => "single value",
+    };
+}
+
+/// <summary>A YAML mapping read strictly: required keys must be there, and <see cref="Finish"/> rejects any key nobody asked for.</summary>
+public sealed class MappingReader
+{
+    private readonly YamlMappingNode _map;
+    private readonly HashSet<string> _known = new(StringComparer.Ordinal);
+
+    internal MappingReader(string file, YamlMappingNode map, string what)
+    {
+        File = file;
+        _map = map;
+        What = what;
+    }
+
+    /// <summary>The file the mapping came from.</summary>
+    public string File { get; }
+
+    /// <summary>The key path of this mapping, for messages.</summary>
+    public string What { get; }
+
+    /// <summary>The 1-based line of the mapping.</summary>
+    public int Line => (int)_map.Start.Line;
+
+    /// <summary>The 1-based column of the mapping.</summary>
+    public int Column => (int)_map.Start.Column;
+
+    /// <summary>Builds an error positioned at the start of this mapping.</summary>
+    public DocumentException Error(string problem) => new(File, Line, Column, problem);
+
+    /// <summary>The value under <paramref name="key"/>, or null when absent.</summary>
+    public NodeReader? Optional(string key)
+    {
+        _known.Add(key);
+        foreach (var (k, v) in _map.Children)
+        {
+            if (k is YamlScalarNode { Value: { } name } && name == key)
+            {
+                return new NodeReader(File, v, What == "document" ? key : $"{What}.{key}");
+            }
+        }
+
+        return null;
+    }
+
+    /// <summary>The value under <paramref name="key"/>; an error naming the key when absent.</summary>
+    public NodeReader Required(string key) =>
+        Optional(key) ?? throw Error($"{What}: the key '{key}' is required here.");
+
+    /// <summary>A required string.</summary>
+    public string Text(string key) => Required(key).AsString();
+
+    /// <summary>An optional string.</summary>
+    public string? StringOr(string key, string? fallback) => Optional(key)?.AsString() ?? fallback;
+
+    /// <summary>A required quantity in <paramref name="unit"/>.</summary>
+    public double Quantity(string key, SiUnit unit) => Required(key).AsQuantity(unit);
+
+    /// <summary>An optional quantity in <paramref name="unit"/>.</summary>
+    public double QuantityOr(string key, SiUnit unit, double fallback) => Optional(key)?.AsQuantity(unit) ?? fallback;
+
+    /// <summary>An optional quantity in <paramref name="unit"/>, null when absent.</summary>
+    public double? QuantityOrNull(string key, SiUnit unit) => Optional(key)?.AsQuantity(unit);
+
+    /// <summary>An optional whole number.</summary>
+    public int IntOr(string key, int fallback, int min = int.MinValue, int max = int.MaxValue) =>
+        Optional(key)?.AsInt(min, max) ?? fallback;
+
+    /// <summary>An optional boolean.</summary>
+    public bool BoolOr(string key, bool fallback) => Optional(key)?.AsBool() ?? fallback;
+
+    /// <summary>An optional nested mapping.</summary>
+    public MappingReader? Mapping(string key) => Optional(key)?.AsMapping();
+
+    /// <summary>An optional list (empty when absent).</summary>
+    public IReadOnlyList<NodeReader> List(string key) => Optional(key)?.AsSequence() ?? [];
+
+    /// <summary>One of the allowed words, case-insensitive, returned in the spelling of <paramref name="allowed"/>.</summary>
+    public string Choice(string key, string fallback, params string[] allowed)
+    {
+        var node = Optional(key);
+        if (node is null)
+        {
+            return fallback;
+        }
+
+        var text = node.Value.AsString();
+        foreach (var a in allowed)
+        {
+            if (string.Equals(a, text, StringComparison.OrdinalIgnoreCase))
+            {
+                return a;
+            }
+        }
+
+        throw node.Value.Error($"{node.Value.What}: '{text}' is not one of {string.Join(", ", allowed)}{Suggest(text, allowed)}.");
+    }
+
+    /// <summary>The entries of the mapping as key/value pairs, all marked known.</summary>
+    public IEnumerable<(string Key, NodeReader Value)> Entries()
+    {
+        foreach (var (k, v) in _map.Children)
+        {
+            var key = k is YamlScalarNode { Value: { } name } ? name : throw new NodeReader(File, k, What).Error($"{What}: keys must be single words.");
+            _known.Add(key);
+            yield return (key, new NodeReader(File, v, What == "document" ? key : $"{What}.{key}"));
+        }
+    }
+
+    /// <summary>Rejects every key that no caller asked for, suggesting the nearest known key.</summary>
+    public void Finish()
+    {
+        foreach (var (k, _) in _map.Children)
+        {
+            if (k is YamlScalarNode { Value: { } name } && !_known.Contains(name))
+            {
+                throw new NodeReader(File, k, What).Error(
+                    $"{What}: unknown key '{name}'{Suggest(name, _known)}; expected one of {string.Join(", ", _known.Order(StringComparer.Ordinal))}.");
+            }
+        }
+    }
+
+    private static string Suggest(string text, IEnumerable<string> candidates)
+    {
+        var best = candidates
+            .Select(c => (c, d: EditDistance(text.ToLowerInvariant(), c.ToLowerInvariant())))
+            .Where(x => x.d <= Math.Max(2, x.c.Length / 3))
+            .OrderBy(x => x.d)
+            .Select(x => x.c)
+            .FirstOrDefault();
+        return best is null ? string.Empty : $" (did you mean '{best}'?)";
+    }
+
+    internal static int EditDistance(string a, string b)
+    {
+        var previous = new int[b.Length + 1];
+        var current = new int[b.Length + 1];
+        for (var j = 0; j <= b.Length; j++)
+        {
+            previous[j] = j;
+        }
+
+        for (var i = 1; i <= a.Length; i++)
+        {
+            current[0] = i;
+            for (var j = 1; j <= b.Length; j++)
+            {
+                var cost = a[i - 1] == b[j - 1] ? 0 : 1;
+                current[j] = Math.Min(Math.Min(current[j - 1] + 1, previous[j] + 1), previous[j - 1] + cost);
+            }
+
+            (previous, current) = (current, previous);
+        }
+
+        return previous[b.Length];
+    }
+}

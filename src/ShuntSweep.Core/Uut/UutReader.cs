@@ -1,0 +1,96 @@
+using ShuntSweep.Core.Documents;
+using ShuntSweep.Core.Quantities;
+
+namespace ShuntSweep.Core.Uut;
+
+/// <summary>Reads a UUT description from YAML, strictly: unknown keys, missing keys and wrong units are errors with their position.</summary>
+public static class UutReader
+{
+    /// <summary>Loads a UUT file whose top level holds the <c>uut</c> mapping, or is that mapping itself.</summary>
+    public static UutDescription Load(string path)
+    {
+        var doc = YamlDocument.Load(path);
+        var node = doc.Mapping("uut");
+        if (node is null)
+        {
+            return Read(doc);
+        }
+
+        doc.Finish();
+        return Read(node);
+    }
+
+    /// <summary>Reads the <c>uut</c> mapping.</summary>
+    public static UutDescription Read(MappingReader map)
+    {
+        ArgumentNullException.ThrowIfNull(map);
+        var jacks = map.Required("jacks").AsSequence().Select(n =>
+        {
+            var j = n.AsMapping();
+            var jack = new JackSpec(j.Text("name"), new Current(j.Quantity("fuseRating", SiUnit.Ampere)), j.StringOr("category", null));
+            j.Finish();
+            return jack;
+        }).ToList();
+
+        var ranges = new List<RangeSpec>();
+        foreach (var n in map.Required("ranges").AsSequence())
+        {
+            var r = n.AsMapping();
+            var name = r.Text("name");
+            var jackNode = r.Required("jack");
+            var jack = jackNode.AsString();
+            if (jacks.All(j => j.Name != jack))
+            {
+                throw jackNode.Error($"range '{name}' uses jack '{jack}', which is not among the jacks ({string.Join(", ", jacks.Select(j => j.Name))}).");
+            }
+
+            var fullScaleNode = r.Required("fullScale");
+            var fullScale = fullScaleNode.AsQuantity(SiUnit.Ampere);
+            if (fullScale <= 0)
+            {
+                throw fullScaleNode.Error($"range '{name}': the full scale must be above zero.");
+            }
+
+            var resolution = r.QuantityOrNull("resolution", SiUnit.Ampere);
+            var counts = r.IntOr("counts", 0, 0);
+            if (resolution is null && counts == 0)
+            {
+                throw r.Error($"range '{name}': give either 'resolution' (one count, e.g. 0.01 mA) or 'counts' (display counts at full scale).");
+            }
+
+            var shunt = r.QuantityOrNull("nominalShunt", SiUnit.Ohm);
+            var accuracy = r.Mapping("accuracy");
+            var spec = accuracy is null
+                ? new AccuracySpec(0, 0)
+                : new AccuracySpec(accuracy.Quantity("reading", SiUnit.None), accuracy.IntOr("counts", 0, 0));
+            accuracy?.Finish();
+            var burden = r.QuantityOrNull("burdenAtFullScale", SiUnit.Volt);
+            var overRange = r.QuantityOr("overRange", SiUnit.None, 0.1);
+            ranges.Add(new RangeSpec(
+                name,
+                jack,
+                new Current(fullScale),
+                new Current(resolution ?? (fullScale / counts)),
+                shunt is null ? null : new Resistance(shunt.Value),
+                spec,
+                burden is null ? null : new Voltage(burden.Value),
+                overRange));
+            r.Finish();
+        }
+
+        if (ranges.Count == 0)
+        {
+            throw map.Error("uut: at least one range is required.");
+        }
+
+        var description = new UutDescription(
+            map.Text("manufacturer"),
+            map.Text("model"),
+            map.Text("serial"),
+            map.StringOr("assetId", null),
+            jacks,
+            ranges);
+        map.Finish();
+        return description;
+    }
+}

@@ -1,0 +1,43 @@
+using ShuntSweep.Core.Timing;
+using ShuntSweep.Instruments.Drivers;
+
+namespace ShuntSweep.Instruments;
+
+/// <summary>The connected bench: one driver per role and the clock they run on.</summary>
+/// <remarks>Disposing closes every connection; it does not switch outputs off (the runner does that first, and confirms it).</remarks>
+public sealed class InstrumentBench(
+    IBenchClock clock,
+    ISupply supply,
+    IElectronicLoad load,
+    IVoltmeter dropMeter,
+    IUutMeter? uutMeter,
+    IReferenceAmmeter? reference,
+    IReadOnlyList<IAsyncDisposable> connections) : IAsyncDisposable
+{
+    /// <summary>The clock of the bench (virtual for an in-process simulation).</summary>
+    public IBenchClock Clock { get; } = clock;
+
+    /// <summary>The supply.</summary>
+    public ISupply Supply { get; } = supply;
+
+    /// <summary>The constant-current load.</summary>
+    public IElectronicLoad Load { get; } = load;
+
+    /// <summary>The voltmeter across the UUT's jacks.</summary>
+    public IVoltmeter DropMeter { get; } = dropMeter;
+
+    /// <summary>The UUT's reading, when the bench can take it.</summary>
+    public IUutMeter? UutMeter { get; } = uutMeter;
+
+    /// <summary>The reference ammeter, when the bench has one.</summary>
+    public IReferenceAmmeter? Reference { get; } = reference;
+
+    /// <inheritdoc />
+    public async ValueTask DisposeAsync()
+    {
+        foreach (var c in connections)
+        {
+            await c.DisposeAsync();
+        }
+    }
+}

@@ -1,0 +1,148 @@
+using System.Text;
+using System.Text.Json;
+using ShuntSweep.Core.Records;
+
+namespace ShuntSweep.Engine.Journal;
+
+/// <summary>The append-only record of a run in its directory: samples in <c>journal.csv</c>, what happened in <c>events.jsonl</c>.</summary>
+/// <remarks>Each step's rows are appended in one write and flushed to disk before its <c>step-done</c> event, which records the journal's length;
+/// a run killed at any moment therefore leaves every completed step readable, and resume cuts the journal back to the last <c>step-done</c>.</remarks>
+public sealed class RunJournal : IDisposable
+{
+    /// <summary>The journal's file name inside a run directory.</summary>
+    public const string JournalFile = "journal.csv";
+
+    /// <summary>The event log's file name inside a run directory.</summary>
+    public const string EventsFile = "events.jsonl";
+
+    private static readonly JsonSerializerOptions JsonOptions = new() { PropertyNamingPolicy = JsonNamingPolicy.CamelCase };
+    private readonly FileStream _journal;
+    private readonly FileStream _events;
+    private readonly TimeProvider _time;
+    private readonly DateTimeOffset _start;
+
+    private RunJournal(string directory, FileStream journal, FileStream events, TimeProvider time, DateTimeOffset start)
+    {
+        Directory = directory;
+        _journal = journal;
+        _events = events;
+        _time = time;
+        _start = start;
+    }
+
+    /// <summary>The run directory.</summary>
+    public string Directory { get; }
+
+    /// <summary>The full path of the journal.</summary>
+    public string JournalPath => Path.Combine(Directory, JournalFile);
+
+    /// <summary>Creates a new journal in <paramref name="directory"/> (which must not already hold one).</summary>
+    public static RunJournal Create(string directory, TimeProvider time, DateTimeOffset start)
+    {
+        ArgumentNullException.ThrowIfNull(time);
+        System.IO.Directory.CreateDirectory(directory);
+        var journal = new FileStream(Path.Combine(directory, JournalFile), FileMode.CreateNew, FileAccess.Write, FileShare.Read);
+        var events = new FileStream(Path.Combine(directory, EventsFile), FileMode.CreateNew, FileAccess.Write, FileShare.Read);
+        var run = new RunJournal(directory, journal, events, time, start);
+        AppendDurably(journal, JournalCsv.Header);
+        return run;
+    }
+
+    /// <summary>Reopens the journal of an interrupted run, cut back to the end of <paramref name="lastDone"/>.</summary>
+    public static RunJournal Reopen(string directory, StepDone lastDone, TimeProvider time, DateTimeOffset start)
+    {
+        ArgumentNullException.ThrowIfNull(lastDone);
+        var journal = new FileStream(Path.Combine(directory, JournalFile), FileMode.Open, FileAccess.Write, FileShare.Read);
+        journal.SetLength(lastDone.JournalBytes);
+        journal.Seek(0, SeekOrigin.End);
+        var eventsPath = Path.Combine(directory, EventsFile);
+        var events = new FileStream(eventsPath, FileMode.Open, FileAccess.Write, FileShare.Read);
+        events.SetLength(EventLog.CompleteLength(eventsPath));
+        events.Seek(0, SeekOrigin.End);
+        return new RunJournal(directory, journal, events, time, start);
+    }
+
+    /// <summary>Appends the samples of one completed step, flushes them to disk, then records the step as done.</summary>
+    public void CompleteStep(int step, IReadOnlyList<Sample> samples)
+    {
+        ArgumentNullException.ThrowIfNull(samples);
+        AppendDurably(_journal, JournalCsv.FormatRows(samples));
+        Event("step-done", new Dictionary<string, object?> { ["step"] = step, ["rows"] = samples.Count, ["journalBytes"] = _journal.Length });
+    }
+
+    /// <summary>Records an event with its time and any details.</summary>
+    public void Event(string name, IReadOnlyDictionary<string, object?>? details = null)
+    {
+        var now = _time.GetUtcNow();
+        var record = new Dictionary<string, object?>
+        {
+            ["time"] = now.ToString("O", System.Globalization.CultureInfo.InvariantCulture),
+            ["elapsedS"] = (now - _start).TotalSeconds,
+            ["event"] = name,
+        };
+        if (details is not null)
+        {
+            foreach (var (k, v) in details)
+            {
+                record[k] = v;
+            }
+        }
+
+        AppendDurably(_events, JsonSerializer.Serialize(record, JsonOptions) + "\n");
+    }
+
+    /// <inheritdoc />
+    public void Dispose()
+    {
+        _journal.Dispose();
+        _events.Dispose();
+    }
+
+    private static void AppendDurably(FileStream stream, string text)
+    {
+        var bytes = Encoding.UTF8.GetBytes(text);
+        stream.Write(bytes);
+        stream.Flush(flushToDisk: true);
+    }
+}
+
+/// <summary>A step recorded as complete, and the journal's length in bytes just after it.</summary>
+public sealed record StepDone(int Step, long JournalBytes);
+
+/// <summary>Reads a run's event log.</summary>
+public static class EventLog
+{
+    /// <summary>The last step recorded as done in the event log of <paramref name="directory"/>, or null when none is.</summary>
+    public static StepDone? LastStepDone(string directory)
+    {
+        StepDone? last = null;
+        foreach (var e in Read(Path.Combine(directory, RunJournal.EventsFile)))
+        {
+            if (e.GetProperty("event").GetString() == "step-done")
+            {
+                last = new StepDone(e.GetProperty("step").GetInt32(), e.GetProperty("journalBytes").GetInt64());
+            }
+        }
+
+        return last;
+    }
+
+    /// <summary>The events of a log, leaving out a last line torn by an interrupted write.</summary>
+    public static IEnumerable<JsonElement> Read(string path)
+    {
+        var text = File.ReadAllText(path);
+        var end = text.LastIndexOf('\n') + 1;
+        foreach (var line in text[..end].Split('\n', StringSplitOptions.RemoveEmptyEntries))
+        {
+            using var doc = JsonDocument.Parse(line);
+            yield return doc.RootElement.Clone();
+        }
+    }
+
+    /// <summary>The length in bytes of the complete lines of the file at <paramref name="path"/>.</summary>
+    public static long CompleteLength(string path)
+    {
+        var bytes = File.ReadAllBytes(path);
+        return Array.LastIndexOf(bytes, (byte)'\n') + 1;
+    }
+}

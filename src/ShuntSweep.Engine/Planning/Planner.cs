@@ -1,0 +1,210 @@
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Core.Uut;
+using ShuntSweep.Engine.Sequences;
+
+namespace ShuntSweep.Engine.Planning;
+
+/// <summary>Expands a sequence on a bench into concrete steps and checks every one against the UUT, its fuses and the bench's limits before any output is touched.</summary>
+public static class Planner
+{
+    /// <summary>The power-line frequency assumed for integration-time estimates.</summary>
+    public const double LineFrequencyHz = 50;
+
+    /// <summary>Expands and checks <paramref name="sequence"/> on <paramref name="bench"/>.</summary>
+    public static RunPlan Plan(Sequence sequence, BenchDescription bench)
+    {
+        ArgumentNullException.ThrowIfNull(sequence);
+        ArgumentNullException.ThrowIfNull(bench);
+        var uut = bench.Uut;
+        var steps = new List<PlanStep>();
+        var violations = new List<PlanViolation>();
+        var remoteRange = bench.Instruments.ContainsKey(InstrumentRole.UutMeter);
+        string? jack = null;
+        string? range = null;
+
+        foreach (var item in sequence.Items)
+        {
+            if (item is PromptItem p)
+            {
+                steps.Add(new PromptStep(steps.Count, p.Line, p.Id, p.Text, p.OutputsOff, null, null));
+                continue;
+            }
+
+            var rangeName = item switch
+            {
+                SweepItem s => s.Range,
+                HoldItem h => h.Range,
+                RampItem r => r.Range,
+                _ => throw new InvalidOperationException($"Unknown sequence item {item.GetType().Name}."),
+            };
+            var spec = uut.Ranges.FirstOrDefault(r => r.Name == rangeName);
+            if (spec is null)
+            {
+                violations.Add(new PlanViolation(steps.Count, item.Line, $"the UUT has no range '{rangeName}'; it has {string.Join(", ", uut.Ranges.Select(r => r.Name))}."));
+                continue;
+            }
+
+            if (spec.Jack != jack)
+            {
+                steps.Add(new PromptStep(
+                    steps.Count,
+                    0,
+                    $"wire-{spec.Jack}",
+                    $"Outputs are off. Connect the loop to the UUT's {spec.Jack} jack ({uut.Jack(spec.Jack).FuseRating} fuse) and the voltmeter across the same jacks.",
+                    true,
+                    spec.Jack,
+                    null));
+                jack = spec.Jack;
+            }
+
+            if (spec.Name != range && !remoteRange)
+            {
+                steps.Add(new PromptStep(steps.Count, 0, $"range-{spec.Name}", $"Set the UUT to its {spec.Name} range.", false, null, spec.Name));
+            }
+
+            range = spec.Name;
+            switch (item)
+            {
+                case SweepItem s:
+                    foreach (var c in s.Currents)
+                    {
+                        steps.Add(new MeasureStep(steps.Count, s.Line, spec.Name, spec.Jack, c.Resolve(spec.FullScale), s.Settings));
+                    }
+
+                    break;
+                case HoldItem h:
+                    steps.Add(new HoldStep(steps.Count, h.Line, spec.Name, spec.Jack, h.Current.Resolve(spec.FullScale), h.Duration, h.Interval, h.Settings));
+                    break;
+                case RampItem r:
+                    steps.Add(new RampStep(steps.Count, r.Line, spec.Name, spec.Jack, r.From.Resolve(spec.FullScale), r.To.Resolve(spec.FullScale), r.Duration, r.Steps));
+                    break;
+            }
+        }
+
+        foreach (var step in steps.OfType<CurrentStep>())
+        {
+            foreach (var current in CurrentsOf(step))
+            {
+                Check(step, current, sequence.Limits, bench, uut, violations);
+            }
+        }
+
+        return new RunPlan(steps, Estimate(steps), violations);
+    }
+
+    /// <summary>The worst-case burden voltage the planner assumes for <paramref name="current"/> on <paramref name="range"/>.</summary>
+    /// <remarks>The specified full-scale burden scaled to the current, else twice the nominal shunt's drop, else the sequence's drop limit.</remarks>
+    public static Voltage? WorstCaseDrop(RangeSpec range, Current current, SafetyLimits limits)
+    {
+        ArgumentNullException.ThrowIfNull(range);
+        ArgumentNullException.ThrowIfNull(limits);
+        var fraction = Math.Abs(current.Amperes) / range.FullScale.Amperes;
+        if (range.BurdenAtFullScale is { } b)
+        {
+            return new Voltage(b.Volts * Math.Max(fraction, 1e-9));
+        }
+
+        if (range.NominalShunt is { } r)
+        {
+            return new Voltage(2 * r.Ohms * Math.Abs(current.Amperes));
+        }
+
+        return limits.MaxDrop;
+    }
+
+    private static IEnumerable<Current> CurrentsOf(CurrentStep step) => step switch
+    {
+        MeasureStep m => [m.Setpoint],
+        HoldStep h => [h.Setpoint],
+        RampStep r => [r.From, r.To],
+        _ => [],
+    };
+
+    private static void Check(CurrentStep step, Current current, SafetyLimits limits, BenchDescription bench, UutDescription uut, List<PlanViolation> violations)
+    {
+        var range = uut.Range(step.Range);
+        var jack = uut.Jack(range.Jack);
+        var line = step.Line;
+        var magnitude = current.Abs();
+        void Refuse(string message) => violations.Add(new PlanViolation(step.Index, line, message));
+
+        if (current.Amperes < 0)
+        {
+            Refuse($"{current} on {range.Name}: this bench's supply and constant-current load drive one polarity only; reverse the leads with a prompt and sweep positive currents.");
+            return;
+        }
+
+        var maxOfRange = range.FullScale.Amperes * limits.MaxFractionOfFullScale;
+        if (magnitude.Amperes > maxOfRange * (1 + 1e-9))
+        {
+            Refuse($"{current} is above the {range.Name} range's limit of {new Current(maxOfRange)} ({limits.MaxFractionOfFullScale:P0} of its {range.FullScale} full scale).");
+        }
+
+        var fuseLimit = jack.FuseRating.Amperes * limits.FuseDerating;
+        if (magnitude.Amperes > fuseLimit * (1 + 1e-9))
+        {
+            Refuse($"{current} is above the derated fuse rating of the {jack.Name} jack: {limits.FuseDerating:P0} of {jack.FuseRating} is {new Current(fuseLimit)}.");
+        }
+
+        if (magnitude > bench.Supply.CurrentLimit)
+        {
+            Refuse($"{current} is above the supply's current limit of {bench.Supply.CurrentLimit}.");
+        }
+
+        if (magnitude > bench.Load.MaxCurrent)
+        {
+            Refuse($"{current} is above the load's rated current of {bench.Load.MaxCurrent}.");
+        }
+
+        var drop = WorstCaseDrop(range, current, limits);
+        if (drop is null)
+        {
+            Refuse($"range {range.Name}: the worst-case drop is unknown (no burden or nominal shunt in the UUT description); state limits.maxDrop in the sequence.");
+            return;
+        }
+
+        var wiring = magnitude * bench.Wiring;
+        var atLoad = bench.Supply.Voltage - drop.Value - wiring;
+        if (atLoad < bench.Load.MinimumVoltage)
+        {
+            Refuse($"{current} on {range.Name}: the supply's {bench.Supply.Voltage} minus a worst-case drop of {drop.Value} and {wiring} of wiring leaves {atLoad} at the load, below its {bench.Load.MinimumVoltage} minimum (dropout).");
+        }
+
+        var supplyPower = bench.Supply.Voltage.Volts * magnitude.Amperes;
+        if (supplyPower > bench.Supply.MaxPower.Watts)
+        {
+            Refuse($"{current} at {bench.Supply.Voltage} is {new Power(supplyPower)}, above the supply's {bench.Supply.MaxPower}.");
+        }
+
+        var loadPower = bench.Supply.Voltage.Volts * magnitude.Amperes;
+        if (loadPower > bench.Load.MaxPower.Watts)
+        {
+            Refuse($"{current} would dissipate up to {new Power(loadPower)} in the load, above its {bench.Load.MaxPower}.");
+        }
+    }
+
+    private static TimeSpan Estimate(IReadOnlyList<PlanStep> steps)
+    {
+        var total = TimeSpan.Zero;
+        foreach (var step in steps)
+        {
+            total += step switch
+            {
+                MeasureStep m => m.Settings.Settling.Dwell + (IntegrationTime(m.Settings) * (m.Settings.Samples + m.Settings.Settling.AgreeCount)),
+                HoldStep h => h.Duration + h.Settings.Settling.Dwell,
+                RampStep r => r.Duration,
+                _ => TimeSpan.Zero,
+            };
+        }
+
+        return total;
+    }
+
+    /// <summary>The integration time of one sample at the settings' NPLC.</summary>
+    public static TimeSpan IntegrationTime(PointSettings settings)
+    {
+        ArgumentNullException.ThrowIfNull(settings);
+        return TimeSpan.FromSeconds(settings.Nplc / LineFrequencyHz);
+    }
+}

@@ -1,0 +1,65 @@
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Engine.Sequences;
+
+namespace ShuntSweep.Engine.Planning;
+
+/// <summary>One concrete step of a run, in the order the runner executes it; its index is the journal's <c>step</c>.</summary>
+/// <param name="Index">The 0-based position of the step in the plan.</param>
+/// <param name="Line">The line of the sequence item the step came from (0 for steps the planner added).</param>
+public abstract record PlanStep(int Index, int Line);
+
+/// <summary>A step that carries current through a range.</summary>
+public abstract record CurrentStep(int Index, int Line, string Range, string Jack) : PlanStep(Index, Line);
+
+/// <summary>Set one current, settle, take samples.</summary>
+public sealed record MeasureStep(int Index, int Line, string Range, string Jack, Current Setpoint, PointSettings Settings)
+    : CurrentStep(Index, Line, Range, Jack);
+
+/// <summary>Hold one current for a time, sampling at a fixed interval.</summary>
+public sealed record HoldStep(int Index, int Line, string Range, string Jack, Current Setpoint, TimeSpan Duration, TimeSpan Interval, PointSettings Settings)
+    : CurrentStep(Index, Line, Range, Jack);
+
+/// <summary>Move the set current in equal steps over a time, without recording.</summary>
+public sealed record RampStep(int Index, int Line, string Range, string Jack, Current From, Current To, TimeSpan Duration, int Steps)
+    : CurrentStep(Index, Line, Range, Jack);
+
+/// <summary>Ask the operator to do something and wait for the answer.</summary>
+/// <param name="Index">The step's index.</param>
+/// <param name="Line">The sequence line, or 0 when the planner added the prompt.</param>
+/// <param name="Id">A stable name for answer files.</param>
+/// <param name="Text">The instruction.</param>
+/// <param name="OutputsOff">Whether outputs are turned off first.</param>
+/// <param name="Jack">For a re-wiring prompt, the jack the lead goes to; the simulated operator acts on it.</param>
+/// <param name="Range">For a range prompt, the range to select.</param>
+public sealed record PromptStep(int Index, int Line, string Id, string Text, bool OutputsOff, string? Jack, string? Range) : PlanStep(Index, Line);
+
+/// <summary>Something that makes a plan unsafe or impossible, with where it came from.</summary>
+/// <param name="Step">The plan step concerned.</param>
+/// <param name="Line">The sequence line.</param>
+/// <param name="Message">What is wrong, in the operator's words.</param>
+public sealed record PlanViolation(int Step, int Line, string Message);
+
+/// <summary>The expanded, checked plan of a run.</summary>
+/// <param name="Steps">The steps in order.</param>
+/// <param name="EstimatedDuration">The expected duration on the bench (settling, integration and holds).</param>
+/// <param name="Violations">Everything that makes the plan unsafe; a plan with any is refused.</param>
+public sealed record RunPlan(IReadOnlyList<PlanStep> Steps, TimeSpan EstimatedDuration, IReadOnlyList<PlanViolation> Violations)
+{
+    /// <summary>True when the plan may run.</summary>
+    public bool IsSafe => Violations.Count == 0;
+
+    /// <summary>The number of recorded samples the plan will produce.</summary>
+    public int SampleCount => Steps.Sum(s => s switch
+    {
+        MeasureStep m => m.Settings.Samples,
+        HoldStep h => HoldSamples(h),
+        _ => 0,
+    });
+
+    /// <summary>The number of samples a hold records.</summary>
+    public static int HoldSamples(HoldStep hold)
+    {
+        ArgumentNullException.ThrowIfNull(hold);
+        return Math.Max(1, (int)Math.Floor((hold.Duration.Ticks / (double)hold.Interval.Ticks) + 1e-9));
+    }
+}

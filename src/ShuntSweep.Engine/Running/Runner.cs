@@ -1,0 +1,396 @@
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Core.Records;
+using ShuntSweep.Core.Timing;
+using ShuntSweep.Engine.Journal;
+using ShuntSweep.Engine.Planning;
+using ShuntSweep.Engine.Sequences;
+using ShuntSweep.Instruments;
+using ShuntSweep.Instruments.Drivers;
+
+namespace ShuntSweep.Engine.Running;
+
+/// <summary>Progress of a run for a progress bar: steps done of the total, and what is happening now.</summary>
+public readonly record struct RunProgress(int StepsDone, int StepsTotal, string Activity);
+
+/// <summary>Executes a checked plan on a connected bench, journals every completed step, watches the safety conditions, and always leaves the outputs off.</summary>
+public sealed class Runner
+{
+    private readonly InstrumentBench _bench;
+    private readonly BenchDescription _description;
+    private readonly Sequence _sequence;
+    private readonly RunPlan _plan;
+    private readonly IOperator _operator;
+    private readonly RunJournal _journal;
+    private readonly IProgress<RunProgress>? _progress;
+    private readonly DateTimeOffset _start;
+    private bool _outputsOn;
+    private string? _range;
+    private double _nplc = double.NaN;
+
+    /// <summary>Creates a runner; <paramref name="start"/> is the instant elapsed times count from.</summary>
+    public Runner(InstrumentBench bench, BenchDescription description, Sequence sequence, RunPlan plan, IOperator @operator, RunJournal journal, DateTimeOffset start, IProgress<RunProgress>? progress = null)
+    {
+        ArgumentNullException.ThrowIfNull(plan);
+        if (!plan.IsSafe)
+        {
+            throw new ArgumentException("An unsafe plan cannot be run.", nameof(plan));
+        }
+
+        _bench = bench;
+        _description = description;
+        _sequence = sequence;
+        _plan = plan;
+        _operator = @operator;
+        _journal = journal;
+        _start = start;
+        _progress = progress;
+    }
+
+    private IBenchClock Clock => _bench.Clock;
+
+    /// <summary>Runs the plan from step <paramref name="resumeAt"/>; earlier steps are replayed unrecorded when <paramref name="replayEarlierSteps"/> (a simulated bench) and skipped otherwise.</summary>
+    public async Task<RunOutcome> RunAsync(int resumeAt = 0, bool replayEarlierSteps = false, CancellationToken cancellationToken = default)
+    {
+        var done = resumeAt;
+        RunOutcome outcome;
+        try
+        {
+            _journal.Event(resumeAt == 0 ? "run-start" : "run-resume", new Dictionary<string, object?> { ["fromStep"] = resumeAt, ["steps"] = _plan.Steps.Count });
+            await PrepareAsync(cancellationToken);
+            foreach (var step in _plan.Steps)
+            {
+                cancellationToken.ThrowIfCancellationRequested();
+                var record = step.Index >= resumeAt;
+                if (!record && !replayEarlierSteps)
+                {
+                    continue;
+                }
+
+                _progress?.Report(new RunProgress(done, _plan.Steps.Count, Describe(step)));
+                var samples = await ExecuteAsync(step, record, cancellationToken);
+                if (record && step is MeasureStep or HoldStep)
+                {
+                    _journal.CompleteStep(step.Index, samples);
+                }
+
+                if (record)
+                {
+                    done = step.Index + 1;
+                }
+            }
+
+            _progress?.Report(new RunProgress(done, _plan.Steps.Count, "done"));
+            outcome = new RunOutcome(RunEnd.Completed, $"All {_plan.Steps.Count} steps completed.", done, false);
+        }
+        catch (SafetyAbortException ex)
+        {
+            outcome = new RunOutcome(RunEnd.SafetyAbort, ex.Message, done, false);
+        }
+        catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
+        {
+            outcome = new RunOutcome(RunEnd.Interrupted, "The run was interrupted; the journal holds every completed step and can be resumed.", done, false);
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            outcome = new RunOutcome(RunEnd.InstrumentFailure, $"Instrument failure: {ex.Message}", done, false);
+        }
+
+        var confirmed = await SafeOffAsync();
+        outcome = outcome with { OutputsConfirmedOff = confirmed };
+        _journal.Event("run-end", new Dictionary<string, object?>
+        {
+            ["end"] = outcome.End.ToString(),
+            ["message"] = outcome.Message,
+            ["stepsDone"] = outcome.StepsDone,
+            ["outputsConfirmedOff"] = confirmed,
+        });
+        return outcome;
+    }
+
+    private async Task PrepareAsync(CancellationToken ct)
+    {
+        await _bench.Load.SetInputAsync(false, ct);
+        await _bench.Supply.SetOutputAsync(false, ct);
+        await _bench.Supply.ConfigureAsync(_description.Supply.Voltage, _description.Supply.CurrentLimit, ct);
+        await _bench.Load.SetConstantCurrentAsync(Current.Zero, ct);
+        if (_bench.Reference is { } reference)
+        {
+            var max = _plan.Steps.OfType<MeasureStep>().Select(s => s.Setpoint.Abs())
+                .Concat(_plan.Steps.OfType<HoldStep>().Select(h => h.Setpoint.Abs()))
+                .DefaultIfEmpty(Current.Zero).Max();
+            await reference.ConfigureAsync(max, FirstNplc(), ct);
+        }
+    }
+
+    private double FirstNplc() =>
+        _plan.Steps.Select(s => s switch { MeasureStep m => m.Settings.Nplc, HoldStep h => h.Settings.Nplc, _ => double.NaN })
+            .FirstOrDefault(n => !double.IsNaN(n), 1);
+
+    private async Task<IReadOnlyList<Sample>> ExecuteAsync(PlanStep step, bool record, CancellationToken ct)
+    {
+        switch (step)
+        {
+            case PromptStep p:
+                if (p.OutputsOff)
+                {
+                    await OutputsOffAsync(ct);
+                }
+
+                if (record)
+                {
+                    _journal.Event("prompt", new Dictionary<string, object?> { ["id"] = p.Id, ["text"] = p.Text });
+                    if (!await _operator.ConfirmAsync(p, ct))
+                    {
+                        throw new SafetyAbortException($"The operator did not confirm '{p.Text}' (prompt {p.Id}).");
+                    }
+                }
+
+                return [];
+            case MeasureStep m:
+                await EnterRangeAsync(m.Range, m.Settings.Nplc, ct);
+                return await MeasureAsync(m, ct);
+            case HoldStep h:
+                await EnterRangeAsync(h.Range, h.Settings.Nplc, ct);
+                return await HoldAsync(h, ct);
+            case RampStep r:
+                await EnterRangeAsync(r.Range, _nplc is double.NaN ? 1 : _nplc, ct);
+                await RampAsync(r, ct);
+                return [];
+            default:
+                throw new InvalidOperationException($"Unknown plan step {step.GetType().Name}.");
+        }
+    }
+
+    private async Task EnterRangeAsync(string range, double nplc, CancellationToken ct)
+    {
+        if (range != _range)
+        {
+            if (_bench.UutMeter is { } uut)
+            {
+                await _bench.Load.SetConstantCurrentAsync(Current.Zero, ct);
+                await uut.SelectRangeAsync(_description.Uut.Range(range), ct);
+            }
+
+            _range = range;
+        }
+
+        if (nplc != _nplc)
+        {
+            await _bench.DropMeter.ConfigureAsync(new VoltmeterSettings(null, nplc, true, 1), ct);
+            _nplc = nplc;
+        }
+
+        if (!_outputsOn)
+        {
+            await _bench.Load.SetConstantCurrentAsync(Current.Zero, ct);
+            await _bench.Supply.SetOutputAsync(true, ct);
+            await _bench.Load.SetInputAsync(true, ct);
+            _outputsOn = true;
+        }
+    }
+
+    private async Task<IReadOnlyList<Sample>> MeasureAsync(MeasureStep m, CancellationToken ct)
+    {
+        await _bench.Load.SetConstantCurrentAsync(m.Setpoint, ct);
+        await Clock.WaitAsync(m.Settings.Settling.Dwell, ct);
+        if (m.Settings.Settling.IsAdaptive)
+        {
+            await SettleAsync(m, ct);
+        }
+
+        var readings = new List<Reading>(m.Settings.Samples);
+        for (var i = 0; i < m.Settings.Samples; i++)
+        {
+            readings.Add(await ReadTogetherAsync(m.Settings.Read, ct));
+        }
+
+        return await FinishPointAsync(m, m.Setpoint, readings, ct);
+    }
+
+    private async Task SettleAsync(MeasureStep m, CancellationToken ct)
+    {
+        var rule = m.Settings.Settling;
+        var deadline = Clock.Now() + rule.MaxWait;
+        var recent = new Queue<double>();
+        while (true)
+        {
+            var r = await ReadTogetherAsync(Readings.Drop, ct);
+            recent.Enqueue(r.Drop);
+            if (recent.Count > rule.AgreeCount)
+            {
+                recent.Dequeue();
+            }
+
+            if (recent.Count == rule.AgreeCount)
+            {
+                var mean = recent.Average();
+                if (recent.Max() - recent.Min() <= rule.Tolerance * Math.Abs(mean))
+                {
+                    return;
+                }
+            }
+
+            if (Clock.Now() >= deadline)
+            {
+                _journal.Event("not-settled", new Dictionary<string, object?> { ["step"] = m.Index, ["maxWaitS"] = rule.MaxWait.TotalSeconds });
+                return;
+            }
+        }
+    }
+
+    private async Task<IReadOnlyList<Sample>> HoldAsync(HoldStep h, CancellationToken ct)
+    {
+        await _bench.Load.SetConstantCurrentAsync(h.Setpoint, ct);
+        var t0 = Clock.Now() + h.Settings.Settling.Dwell;
+        var count = RunPlan.HoldSamples(h);
+        var readings = new List<Reading>(count);
+        for (var k = 0; k < count; k++)
+        {
+            await Clock.WaitUntilAsync(t0 + (h.Interval * k), ct);
+            var r = await ReadTogetherAsync(h.Settings.Read, ct);
+            readings.Add(r);
+            CheckDrop(r.Drop, h.Range);
+        }
+
+        return await FinishPointAsync(h, h.Setpoint, readings, ct);
+    }
+
+    private async Task RampAsync(RampStep r, CancellationToken ct)
+    {
+        for (var k = 1; k <= r.Steps; k++)
+        {
+            var level = new Current(r.From.Amperes + ((r.To.Amperes - r.From.Amperes) * k / r.Steps));
+            await _bench.Load.SetConstantCurrentAsync(level, ct);
+            await Clock.WaitAsync(r.Duration / r.Steps, ct);
+        }
+    }
+
+    private async Task<IReadOnlyList<Sample>> FinishPointAsync(CurrentStep step, Current setpoint, List<Reading> readings, CancellationToken ct)
+    {
+        var regulating = await _bench.Load.IsRegulatingAsync(ct);
+        var supplyVolts = await _bench.Supply.MeasureVoltageAsync(ct);
+        var loadVolts = await _bench.Load.MeasureVoltageAsync(ct);
+        var loadCurrent = readings.Any(r => double.IsNaN(r.Reference)) ? await _bench.Load.MeasureCurrentAsync(ct) : Current.Zero;
+        var samples = readings.Select((r, i) => new Sample(
+            step.Range,
+            step.Jack,
+            step.Index,
+            i,
+            setpoint,
+            new Current(double.IsNaN(r.Reference) ? loadCurrent.Amperes : r.Reference),
+            r.Uut,
+            new Voltage(r.Drop),
+            supplyVolts,
+            loadVolts,
+            r.At - _start)).ToList();
+
+        var measured = samples.Average(s => s.Reference.Amperes);
+        if (!regulating)
+        {
+            if (setpoint.Amperes > 0 && Math.Abs(measured) < 0.01 * setpoint.Amperes && supplyVolts > _description.Load.MinimumVoltage)
+            {
+                throw new SafetyAbortException(
+                    $"Open circuit at {setpoint} on {step.Range}: the current collapsed to {new Current(measured)} while the supply holds {supplyVolts}. The UUT's {step.Jack} fuse has probably opened; turn everything off and check it before re-wiring.");
+            }
+
+            throw new SafetyAbortException(
+                $"The load is out of regulation at {setpoint} on {step.Range} (load {loadVolts}, supply {supplyVolts}): dropout below its {_description.Load.MinimumVoltage} minimum, or the supply is in current limit.");
+        }
+
+        foreach (var s in samples)
+        {
+            CheckDrop(s.Burden.Volts, step.Range);
+            var range = _description.Uut.Range(step.Range);
+            if (double.IsInfinity(s.UutReading) && setpoint <= range.FullScale)
+            {
+                throw new SafetyAbortException($"The UUT shows overload at {setpoint} on its {range.Name} range (full scale {range.FullScale}).");
+            }
+        }
+
+        return samples;
+    }
+
+    private void CheckDrop(double drop, string range)
+    {
+        if (_sequence.Limits.MaxDrop is { } max && Math.Abs(drop) > max.Volts)
+        {
+            throw new SafetyAbortException($"The drop across the UUT ({new Voltage(drop)}) on {range} is above the {max} limit of the sequence.");
+        }
+    }
+
+    private async Task<Reading> ReadTogetherAsync(Readings read, CancellationToken ct)
+    {
+        var meters = new List<ITriggeredMeter> { _bench.DropMeter };
+        var uut = read.HasFlag(Readings.Uut) ? _bench.UutMeter : null;
+        var reference = read.HasFlag(Readings.Reference) ? _bench.Reference : null;
+        if (uut is not null)
+        {
+            meters.Add(uut);
+        }
+
+        if (reference is not null)
+        {
+            meters.Add(reference);
+        }
+
+        var at = Clock.Now();
+        await Task.WhenAll(meters.Select(m => m.ArmAsync(ct)));
+        var values = await Task.WhenAll(meters.Select(m => m.FetchAsync(ct)));
+        var drop = values[0][0];
+        var index = 1;
+        var uutValue = uut is null ? double.NaN : values[index++][0];
+        var referenceValue = reference is null ? double.NaN : values[index][0];
+        return new Reading(at, drop, uutValue, referenceValue);
+    }
+
+    private async Task OutputsOffAsync(CancellationToken ct)
+    {
+        await _bench.Load.SetInputAsync(false, ct);
+        await _bench.Supply.SetOutputAsync(false, ct);
+        _outputsOn = false;
+    }
+
+    /// <summary>Load input off, then supply output off, each confirmed by query; never throws.</summary>
+    private async Task<bool> SafeOffAsync()
+    {
+        using var timeout = new CancellationTokenSource(TimeSpan.FromSeconds(10));
+        var confirmed = true;
+        try
+        {
+            await _bench.Load.SetInputAsync(false, timeout.Token);
+            confirmed &= !await _bench.Load.IsInputOnAsync(timeout.Token);
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            confirmed = false;
+            _journal.Event("safe-off-failed", new Dictionary<string, object?> { ["instrument"] = "load", ["error"] = ex.Message });
+        }
+
+        try
+        {
+            await _bench.Supply.SetOutputAsync(false, timeout.Token);
+            confirmed &= !await _bench.Supply.IsOutputOnAsync(timeout.Token);
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            confirmed = false;
+            _journal.Event("safe-off-failed", new Dictionary<string, object?> { ["instrument"] = "supply", ["error"] = ex.Message });
+        }
+
+        _outputsOn = false;
+        _journal.Event("outputs-off", new Dictionary<string, object?> { ["confirmed"] = confirmed });
+        return confirmed;
+    }
+
+    private static string Describe(PlanStep step) => step switch
+    {
+        MeasureStep m => $"{m.Range} {m.Setpoint}",
+        HoldStep h => $"{h.Range} hold {h.Setpoint} for {h.Duration.TotalSeconds:0.#} s",
+        RampStep r => $"{r.Range} ramp to {r.To}",
+        PromptStep p => p.Text,
+        _ => step.GetType().Name,
+    };
+
+    private readonly record struct Reading(DateTimeOffset At, double Drop, double Uut, double Reference);
+}

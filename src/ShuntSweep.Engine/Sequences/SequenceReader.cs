@@ -1,0 +1,272 @@
+using ShuntSweep.Core.Documents;
+using ShuntSweep.Core.Quantities;
+
+namespace ShuntSweep.Engine.Sequences;
+
+/// <summary>Reads a sequence file strictly: every unknown key, missing key, wrong unit or impossible value is an error with file, line and column.</summary>
+public static class SequenceReader
+{
+    /// <summary>Loads the sequence at <paramref name="path"/>.</summary>
+    public static Sequence Load(string path) => Read(YamlDocument.Load(path));
+
+    /// <summary>Parses sequence text; <paramref name="fileName"/> is used in messages.</summary>
+    public static Sequence Parse(string text, string fileName) => Read(YamlDocument.Parse(text, fileName));
+
+    private static Sequence Read(MappingReader doc)
+    {
+        var title = doc.Text("sequence");
+        doc.StringOr("description", null);
+
+        var defaultsMap = doc.Mapping("defaults");
+        var defaults = ReadSettings(defaultsMap, new PointSettings(
+            new Settling(TimeSpan.FromMilliseconds(100), 0, 0, TimeSpan.Zero), 5, 1, Readings.Drop | Readings.Uut | Readings.Reference));
+        defaultsMap?.Finish();
+
+        var limitsMap = doc.Mapping("limits");
+        var limits = new SafetyLimits(
+            limitsMap?.QuantityOrNull("maxDrop", SiUnit.Volt) is { } md ? new Voltage(md) : null,
+            Fraction(limitsMap, "fuseDerating", 0.8),
+            Fraction(limitsMap, "maxOfFullScale", 1.0));
+        limitsMap?.Finish();
+
+        var items = new List<SequenceItem>();
+        var stepsNode = doc.Required("steps");
+        var steps = stepsNode.AsSequence();
+        if (steps.Count == 0)
+        {
+            throw stepsNode.Error("steps: the list is empty; add at least one 'sweep' or 'hold'.");
+        }
+
+        foreach (var node in steps)
+        {
+            var map = node.AsMapping();
+            var kinds = new[] { "sweep", "hold", "ramp", "prompt" };
+            var present = kinds.Where(k => map.Optional(k) is not null).ToList();
+            if (present.Count != 1)
+            {
+                map.Finish();
+                throw map.Error($"{node.What}: each step is exactly one of {string.Join(", ", kinds)}; found {(present.Count == 0 ? "none" : string.Join(" and ", present))}.");
+            }
+
+            var body = map.Required(present[0]);
+            items.Add(present[0] switch
+            {
+                "sweep" => ReadSweep(body, defaults),
+                "hold" => ReadHold(body, defaults),
+                "ramp" => ReadRamp(body),
+                _ => ReadPrompt(body, items.Count),
+            });
+            map.Finish();
+        }
+
+        doc.Finish();
+        return new Sequence(title, doc.File, limits, items);
+    }
+
+    private static SweepItem ReadSweep(NodeReader node, PointSettings defaults)
+    {
+        var map = node.AsMapping();
+        var range = map.Text("range");
+        var currentsNode = map.Required("currents");
+        var currents = new List<CurrentValue>();
+        if (currentsNode.IsSequence)
+        {
+            currents.AddRange(currentsNode.AsSequence().Select(ReadCurrent));
+        }
+        else
+        {
+            var c = currentsNode.AsMapping();
+            var list = c.Optional("list");
+            var linear = c.Mapping("linear");
+            var log = c.Mapping("log");
+            var forms = (list is null ? 0 : 1) + (linear is null ? 0 : 1) + (log is null ? 0 : 1);
+            if (forms != 1)
+            {
+                c.Finish();
+                throw c.Error($"{c.What}: give exactly one of 'list', 'linear' or 'log'.");
+            }
+
+            if (list is { } l)
+            {
+                currents.AddRange(l.AsSequence().Select(ReadCurrent));
+            }
+            else
+            {
+                currents.AddRange(Series((linear ?? log)!, log is not null));
+            }
+
+            c.Finish();
+        }
+
+        if (currents.Count == 0)
+        {
+            throw currentsNode.Error($"{currentsNode.What}: no currents given.");
+        }
+
+        var settings = ReadSettings(map, defaults);
+        map.Finish();
+        return new SweepItem(node.Line, range, currents, settings);
+    }
+
+    private static IEnumerable<CurrentValue> Series(MappingReader map, bool logarithmic)
+    {
+        var fromNode = map.Required("from");
+        var from = ReadCurrent(fromNode);
+        var to = ReadCurrent(map.Required("to"));
+        var points = map.Required("points").AsInt(2, 100_000);
+        map.Finish();
+        if (from.IsFraction != to.IsFraction)
+        {
+            throw fromNode.Error($"{map.What}: 'from' and 'to' must both be currents or both be % of full scale.");
+        }
+
+        if (logarithmic && (from.Value <= 0 || to.Value <= 0))
+        {
+            throw fromNode.Error($"{map.What}: a logarithmic series needs 'from' and 'to' above zero.");
+        }
+
+        for (var i = 0; i < points; i++)
+        {
+            var t = i / (double)(points - 1);
+            var v = logarithmic
+                ? Math.Exp(Math.Log(from.Value) + (t * (Math.Log(to.Value) - Math.Log(from.Value))))
+                : from.Value + (t * (to.Value - from.Value));
+            yield return new CurrentValue(v, from.IsFraction);
+        }
+    }
+
+    private static HoldItem ReadHold(NodeReader node, PointSettings defaults)
+    {
+        var map = node.AsMapping();
+        var range = map.Text("range");
+        var current = ReadCurrent(map.Required("current"));
+        var durationNode = map.Required("duration");
+        var duration = TimeSpan.FromSeconds(durationNode.AsQuantity(SiUnit.Second));
+        var rateNode = map.Required("rate");
+        var rate = rateNode.AsQuantity(SiUnit.Hertz);
+        if (rate <= 0 || duration <= TimeSpan.Zero)
+        {
+            throw rateNode.Error($"{map.What}: 'duration' and 'rate' must be above zero.");
+        }
+
+        var settings = ReadSettings(map, defaults with { Samples = 1 });
+        map.Finish();
+        return new HoldItem(node.Line, range, current, duration, TimeSpan.FromSeconds(1 / rate), settings);
+    }
+
+    private static RampItem ReadRamp(NodeReader node)
+    {
+        var map = node.AsMapping();
+        var item = new RampItem(
+            node.Line,
+            map.Text("range"),
+            ReadCurrent(map.Required("from")),
+            ReadCurrent(map.Required("to")),
+            TimeSpan.FromSeconds(map.Quantity("duration", SiUnit.Second)),
+            map.IntOr("steps", 10, 1, 10_000));
+        map.Finish();
+        return item;
+    }
+
+    private static PromptItem ReadPrompt(NodeReader node, int index)
+    {
+        if (!node.IsMapping)
+        {
+            return new PromptItem(node.Line, $"prompt-{index + 1}", node.AsString(), true);
+        }
+
+        var map = node.AsMapping();
+        var item = new PromptItem(node.Line, map.StringOr("id", $"prompt-{index + 1}")!, map.Text("text"), map.BoolOr("outputsOff", true));
+        map.Finish();
+        return item;
+    }
+
+    private static PointSettings ReadSettings(MappingReader? map, PointSettings fallback)
+    {
+        if (map is null)
+        {
+            return fallback;
+        }
+
+        var dwell = map.QuantityOrNull("dwell", SiUnit.Second);
+        var settling = fallback.Settling with { Dwell = dwell is null ? fallback.Settling.Dwell : TimeSpan.FromSeconds(dwell.Value) };
+        if (map.Optional("settle") is { } settleNode)
+        {
+            if (settleNode.IsMapping)
+            {
+                var s = settleNode.AsMapping();
+                settling = settling with
+                {
+                    AgreeCount = s.Required("agree").AsInt(2, 1000),
+                    Tolerance = s.Quantity("within", SiUnit.None),
+                    MaxWait = TimeSpan.FromSeconds(s.Quantity("maxWait", SiUnit.Second)),
+                };
+                s.Finish();
+            }
+            else if (!string.Equals(settleNode.AsString(), "fixed", StringComparison.OrdinalIgnoreCase))
+            {
+                throw settleNode.Error($"{settleNode.What}: expected 'fixed' or a mapping {{ agree: N, within: 0.1 %, maxWait: 2 s }}.");
+            }
+            else
+            {
+                settling = settling with { AgreeCount = 0 };
+            }
+        }
+
+        var read = fallback.Read;
+        if (map.Optional("read") is { } readNode)
+        {
+            read = Readings.None;
+            foreach (var r in readNode.AsSequence())
+            {
+                read |= r.AsString() switch
+                {
+                    "drop" => Readings.Drop,
+                    "uut" => Readings.Uut,
+                    "reference" => Readings.Reference,
+                    var other => throw r.Error($"{r.What}: '{other}' is not a reading; expected drop, uut or reference."),
+                };
+            }
+
+            if (!read.HasFlag(Readings.Drop))
+            {
+                throw readNode.Error($"{readNode.What}: 'drop' must be read: the burden voltage is what a characterisation measures.");
+            }
+        }
+
+        var nplcNode = map.Optional("nplc");
+        var nplc = nplcNode?.AsQuantity(SiUnit.None) ?? fallback.Nplc;
+        if (nplc is <= 0 or > 1000)
+        {
+            throw nplcNode!.Value.Error($"{nplcNode.Value.What}: NPLC must be above 0 and at most 1000.");
+        }
+
+        return new PointSettings(settling, map.IntOr("samples", fallback.Samples, 1, 100_000), nplc, read);
+    }
+
+    private static CurrentValue ReadCurrent(NodeReader node)
+    {
+        var text = node.AsString().Trim();
+        if (text.EndsWith('%'))
+        {
+            var fraction = node.AsQuantity(SiUnit.None);
+            return fraction is < -2 or > 2
+                ? throw node.Error($"{node.What}: {text} of full scale is outside ±200 %.")
+                : new CurrentValue(fraction, true);
+        }
+
+        return new CurrentValue(node.AsQuantity(SiUnit.Ampere), false);
+    }
+
+    private static double Fraction(MappingReader? map, string key, double fallback)
+    {
+        var node = map?.Optional(key);
+        if (node is null)
+        {
+            return fallback;
+        }
+
+        var v = node.Value.AsQuantity(SiUnit.None);
+        return v is <= 0 or > 1.5 ? throw node.Value.Error($"{node.Value.What}: expected a fraction such as 80 %, found {node.Value.AsString()}.") : v;
+    }
+}

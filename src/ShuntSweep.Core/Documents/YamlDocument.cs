@@ -29,6 +29,11 @@ public static class YamlDocument
 
             throw new DocumentException(fileName, (int)ex.Start.Line, (int)ex.Start.Column, $"not valid YAML: {problem}");
         }
+        catch (InvalidOperationException ex)
+        {
+            // YamlDotNet's scanner throws this (without a position) on some unterminated flow collections.
+            throw new DocumentException(fileName, 0, 0, $"not valid YAML (an unclosed [ or {{ ?): {ex.Message}");
+        }
 
         if (stream.Documents.Count == 0)
         {

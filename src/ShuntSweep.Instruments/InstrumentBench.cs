@@ -12,7 +12,8 @@ public sealed class InstrumentBench(
     IVoltmeter dropMeter,
     IUutMeter? uutMeter,
     IReferenceAmmeter? reference,
-    IReadOnlyList<IAsyncDisposable> connections) : IAsyncDisposable
+    IReadOnlyList<IAsyncDisposable> connections,
+    IReadOnlyList<ConnectedInstrument>? instruments = null) : IAsyncDisposable
 {
     /// <summary>The clock of the bench (virtual for an in-process simulation).</summary>
     public IBenchClock Clock { get; } = clock;
@@ -31,6 +32,9 @@ public sealed class InstrumentBench(
 
     /// <summary>The reference ammeter, when the bench has one.</summary>
     public IReferenceAmmeter? Reference { get; } = reference;
+
+    /// <summary>Who answered at each role when the bench was connected (identity, profile, errors left in the queue), for the run manifest.</summary>
+    public IReadOnlyList<ConnectedInstrument> Instruments { get; } = instruments ?? [];
 
     /// <inheritdoc />
     public async ValueTask DisposeAsync()

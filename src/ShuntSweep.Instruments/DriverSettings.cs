@@ -1,0 +1,125 @@
+using System.IO.Ports;
+using ShuntSweep.Core.Documents;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Instruments.Drivers;
+using ShuntSweep.Instruments.Messaging;
+
+namespace ShuntSweep.Instruments;
+
+/// <summary>Line settings of a serial instrument (bench file keys baud, parity, dataBits, stopBits, flowControl).</summary>
+/// <param name="Baud">Bits per second; the default value is 9600.</param>
+/// <param name="Parity">The parity bit; the default value is none.</param>
+/// <param name="DataBits">Data bits per character, 5…8; the default value is 8.</param>
+/// <param name="StopBits">Stop bits; the default value is one.</param>
+/// <param name="FlowControl">Handshake; the default value is none.</param>
+public sealed record SerialSettings(int Baud = 9600, Parity Parity = Parity.None, int DataBits = 8, StopBits StopBits = StopBits.One, Handshake FlowControl = Handshake.None);
+
+/// <summary>The driver settings of one instrument, read strictly from its mapping in the bench file.</summary>
+/// <param name="Profile">The profile name or file.</param>
+/// <param name="Session">Terminators, timeout, what to send after resynchronising.</param>
+/// <param name="Timing">Line frequency, overhead and fetch margin of an integrating meter.</param>
+/// <param name="Nplc">The integration time the UUT meter is set to (where its profile can set it), in power-line cycles.</param>
+/// <param name="Serial">Serial line settings; null unless the bench file gives any.</param>
+/// <param name="Device">A device file that overrides the automatic mapping of a USB resource to /dev/usbtmcN.</param>
+/// <param name="BaseDirectory">The directory of the bench file, against which relative profile paths are resolved.</param>
+public sealed record DriverSettings(
+    string Profile,
+    SessionOptions Session,
+    MeterTiming Timing,
+    double Nplc,
+    SerialSettings? Serial,
+    string? Device,
+    string? BaseDirectory)
+{
+    /// <summary>The settings used when nothing is configured (probe of a bare resource string).</summary>
+    public static DriverSettings Default { get; } = new(Profiles.InstrumentProfile.DefaultName, new SessionOptions(), MeterTiming.Default, 1, null, null, null);
+
+    /// <summary>Reads the settings of an instrument mapping (whose <c>resource</c> was already read) and rejects unknown keys.</summary>
+    public static DriverSettings Read(MappingReader map, string? baseDirectory)
+    {
+        ArgumentNullException.ThrowIfNull(map);
+        var profile = map.StringOr("profile", Profiles.InstrumentProfile.DefaultName)!;
+        var timeout = map.QuantityOr("timeout", SiUnit.Second, 2);
+        if (timeout <= 0 || timeout > 3600)
+        {
+            throw map.Required("timeout").Error($"{map.What}.timeout: {timeout} s is outside 1 ms…1 h.");
+        }
+
+        var termination = Terminator(map.Choice("termination", "lf", "lf", "crlf", "cr"));
+        var read = map.Optional("readTermination") is null ? termination : Terminator(map.Choice("readTermination", "lf", "lf", "crlf", "cr"));
+        var write = map.Optional("writeTermination") is null ? termination : Terminator(map.Choice("writeTermination", "lf", "lf", "crlf", "cr"));
+
+        var lineFrequency = map.QuantityOr("lineFrequency", SiUnit.Hertz, 50);
+        if (lineFrequency is not (>= 10 and <= 1000))
+        {
+            throw map.Required("lineFrequency").Error($"{map.What}.lineFrequency: {lineFrequency} Hz is not a mains frequency (expected 50 Hz or 60 Hz).");
+        }
+
+        var overhead = map.QuantityOr("overhead", SiUnit.Second, 0.010);
+        var margin = map.Optional("timeoutMargin")?.AsQuantity(SiUnit.None) ?? 2;
+        if (overhead < 0 || margin < 1)
+        {
+            throw map.Error($"{map.What}: overhead must be ≥ 0 s and timeoutMargin ≥ 1.");
+        }
+
+        var nplc = map.Optional("nplc")?.AsQuantity(SiUnit.None) ?? 1;
+        if (nplc <= 0)
+        {
+            throw map.Required("nplc").Error($"{map.What}.nplc: must be greater than 0.");
+        }
+
+        var serial = ReadSerial(map);
+        var device = map.StringOr("device", null);
+        map.Finish();
+
+        var session = new SessionOptions
+        {
+            Timeout = TimeSpan.FromSeconds(timeout),
+            ReadTermination = read,
+            WriteTermination = write,
+        };
+        return new DriverSettings(profile, session, new MeterTiming(lineFrequency, TimeSpan.FromSeconds(overhead), margin), nplc, serial, device, baseDirectory);
+    }
+
+    private static readonly string[] SerialKeys = ["baud", "parity", "dataBits", "stopBits", "flowControl"];
+
+    private static SerialSettings? ReadSerial(MappingReader map)
+    {
+        var given = SerialKeys.Any(k => map.Optional(k) is not null);
+        if (!given)
+        {
+            return null;
+        }
+
+        var baud = map.IntOr("baud", 9600, 50, 4_000_000);
+        var parity = map.Choice("parity", "none", "none", "odd", "even", "mark", "space") switch
+        {
+            "odd" => Parity.Odd,
+            "even" => Parity.Even,
+            "mark" => Parity.Mark,
+            "space" => Parity.Space,
+            _ => Parity.None,
+        };
+        var dataBits = map.IntOr("dataBits", 8, 5, 8);
+        var stopBits = map.Choice("stopBits", "1", "1", "1.5", "2") switch
+        {
+            "1.5" => StopBits.OnePointFive,
+            "2" => StopBits.Two,
+            _ => StopBits.One,
+        };
+        var flow = map.Choice("flowControl", "none", "none", "xonxoff", "rtscts") switch
+        {
+            "xonxoff" => Handshake.XOnXOff,
+            "rtscts" => Handshake.RequestToSend,
+            _ => Handshake.None,
+        };
+        return new SerialSettings(baud, parity, dataBits, stopBits, flow);
+    }
+
+    private static string Terminator(string word) => word switch
+    {
+        "crlf" => "\r\n",
+        "cr" => "\r",
+        _ => "\n",
+    };
+}

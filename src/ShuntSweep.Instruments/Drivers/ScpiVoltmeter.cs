@@ -1,0 +1,26 @@
+using ShuntSweep.Instruments.Messaging;
+using ShuntSweep.Instruments.Profiles;
+
+namespace ShuntSweep.Instruments.Drivers;
+
+/// <summary>A DC voltmeter driven by the commands of its profile.</summary>
+internal sealed class ScpiVoltmeter(MessageSession session, InstrumentProfile profile, MeterTiming timing)
+    : ScpiTriggeredMeter(session, profile, "voltmeter", timing), IVoltmeter
+{
+    public async Task ConfigureAsync(VoltmeterSettings settings, CancellationToken cancellationToken = default)
+    {
+        ArgumentNullException.ThrowIfNull(settings);
+        var commands = new List<string>();
+        commands.AddRange(Profile.CommandsOrAuto("voltmeter.configure", settings.Range?.Volts));
+        commands.AddRange(Profile.Commands("voltmeter.setNplc", settings.Nplc));
+        if (Profile.Supports("voltmeter.setAutoZero"))
+        {
+            commands.AddRange(Profile.Commands("voltmeter.setAutoZero", settings.AutoZero));
+        }
+
+        commands.AddRange(Profile.Commands("voltmeter.setSamples", settings.SamplesPerTrigger));
+        commands.AddRange(Profile.Commands("voltmeter.setTrigger"));
+        await SendCheckedAsync(commands, $"configuring {settings}", cancellationToken);
+        SetIntegration(settings.Nplc, settings.SamplesPerTrigger);
+    }
+}

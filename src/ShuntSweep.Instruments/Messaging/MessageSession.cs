@@ -1,0 +1,645 @@
+using System.Net.Sockets;
+using System.Text;
+using Serilog;
+using ShuntSweep.Instruments.Transports;
+
+namespace ShuntSweep.Instruments.Messaging;
+
+/// <summary>An IEEE 488.2 message exchange with one instrument: commands, queries, arbitrary blocks, the error queue; safe for concurrent callers.</summary>
+/// <remarks>
+/// <para>One lock is held across each write and its read, so two callers never interleave on one instrument.</para>
+/// <para>
+/// A query that times out after its command was sent still owes an answer. Before the session is used again it waits for and discards
+/// that late answer (up to one timeout); if it does not come, the session reopens the connection when it can, so a late answer is never
+/// returned as the answer to a later query. Bytes that arrive unasked are discarded before every exchange.
+/// </para>
+/// <para>Timeouts run on the I/O time provider, which is the wall clock by default even when the bench itself runs on virtual time.</para>
+/// </remarks>
+public sealed class MessageSession : IAsyncDisposable
+{
+    private const int MaxErrorsDrained = 64;
+
+    private readonly SemaphoreSlim _gate = new(1, 1);
+    private readonly TransportOpener? _opener;
+    private readonly TimeProvider _ioTime;
+    private readonly ILogger? _traffic;
+    private readonly byte[] _readTerminator;
+    private readonly byte[] _writeTerminator;
+    private readonly Queue<AnswerKind> _owed = new();
+    private ITransport? _transport;
+    private byte[] _in = new byte[4096];
+    private int _start;
+    private int _end;
+    private int _scan;
+    private byte[] _out = new byte[256];
+    private CancellationTokenSource _timer;
+    private CancellationTokenRegistration _link;
+    private bool _broken;
+    private bool _disposed;
+
+    /// <summary>Creates a session over an open transport; <paramref name="reopen"/>, when given, is used to reconnect after a lost connection or an unrecoverable stale answer.</summary>
+    public MessageSession(ITransport transport, SessionOptions? options = null, TransportOpener? reopen = null, TimeProvider? ioTime = null, ILogger? traffic = null)
+    {
+        ArgumentNullException.ThrowIfNull(transport);
+        Options = options ?? new SessionOptions();
+        Options.Validate();
+        Resource = transport.Resource;
+        _transport = transport;
+        _opener = reopen;
+        _ioTime = ioTime ?? TimeProvider.System;
+        _traffic = traffic?.ForContext(nameof(Resource), Resource);
+        _readTerminator = Encoding.ASCII.GetBytes(Options.ReadTermination);
+        _writeTerminator = Encoding.ASCII.GetBytes(Options.WriteTermination);
+        _timer = new CancellationTokenSource(Timeout.InfiniteTimeSpan, _ioTime);
+    }
+
+    private enum AnswerKind : byte
+    {
+        Message,
+        Block,
+    }
+
+    /// <summary>The resource string of the instrument.</summary>
+    public string Resource { get; }
+
+    /// <summary>The options the session was made with.</summary>
+    public SessionOptions Options { get; }
+
+    /// <summary>How many times the connection was reopened; a driver that sees it change re-sends its configuration.</summary>
+    public int Generation { get; private set; }
+
+    /// <summary>Sends a command that has no answer.</summary>
+    public async ValueTask WriteAsync(string command, CancellationToken cancellationToken = default)
+    {
+        await _gate.WaitAsync(cancellationToken);
+        try
+        {
+            await PrepareAsync(cancellationToken);
+            var token = Arm(Options.Timeout, cancellationToken);
+            try
+            {
+                await SendAsync(command, token);
+            }
+            catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+            {
+                _broken = true;
+                throw new InstrumentTimeoutException(Resource, $"the command '{command}' could not be sent within {Seconds(Options.Timeout)}.", Options.Timeout);
+            }
+            finally
+            {
+                Disarm();
+            }
+        }
+        finally
+        {
+            _gate.Release();
+        }
+    }
+
+    /// <summary>Sends a query and returns its answer without the terminator.</summary>
+    /// <param name="query">The query, for example <c>MEAS:VOLT?</c>.</param>
+    /// <param name="timeout">How long to wait for the whole answer; the session's default when null.</param>
+    /// <param name="cancellationToken">Cancels the wait; the answer, when it comes late, is discarded.</param>
+    public async ValueTask<string> QueryAsync(string query, TimeSpan? timeout = null, CancellationToken cancellationToken = default)
+    {
+        await _gate.WaitAsync(cancellationToken);
+        try
+        {
+            await PrepareAsync(cancellationToken);
+            var limit = timeout ?? Options.Timeout;
+            var token = Arm(limit, cancellationToken);
+            var sent = false;
+            var started = _ioTime.GetTimestamp();
+            try
+            {
+                await SendAsync(query, token);
+                sent = true;
+                var length = await ReceiveMessageAsync(query, token);
+                var text = Encoding.Latin1.GetString(_in, _start, length);
+                Consume(length + _readTerminator.Length);
+                _traffic?.Information("rx {Text} after {ElapsedMs:F3} ms", text, _ioTime.GetElapsedTime(started).TotalMilliseconds);
+                return text;
+            }
+            catch (OperationCanceledException) when (sent)
+            {
+                _owed.Enqueue(AnswerKind.Message);
+                if (cancellationToken.IsCancellationRequested)
+                {
+                    throw;
+                }
+
+                throw new InstrumentTimeoutException(Resource, $"no complete answer to '{query}' within {Seconds(limit)}{Pending()}.", limit);
+            }
+            catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+            {
+                _broken = true;
+                throw new InstrumentTimeoutException(Resource, $"the query '{query}' could not be sent within {Seconds(limit)}.", limit);
+            }
+            finally
+            {
+                Disarm();
+            }
+        }
+        finally
+        {
+            _gate.Release();
+        }
+    }
+
+    /// <summary>Sends a query whose answer is one arbitrary block (IEEE 488.2 §8.7.9 definite length <c>#&lt;n&gt;&lt;length&gt;&lt;bytes&gt;</c>, or §8.7.10 indefinite <c>#0&lt;bytes&gt;</c> ending at the terminator) and returns its bytes.</summary>
+    public async ValueTask<byte[]> QueryBlockAsync(string query, TimeSpan? timeout = null, CancellationToken cancellationToken = default)
+    {
+        await _gate.WaitAsync(cancellationToken);
+        try
+        {
+            await PrepareAsync(cancellationToken);
+            var limit = timeout ?? Options.Timeout;
+            var token = Arm(limit, cancellationToken);
+            var sent = false;
+            var started = _ioTime.GetTimestamp();
+            try
+            {
+                await SendAsync(query, token);
+                sent = true;
+                var (offset, length, total) = await ReceiveBlockAsync(query, token);
+                var data = _in.AsSpan(offset, length).ToArray();
+                Consume(total);
+                _traffic?.Information("rx {Text} after {ElapsedMs:F3} ms", $"<block of {length} bytes>", _ioTime.GetElapsedTime(started).TotalMilliseconds);
+                return data;
+            }
+            catch (OperationCanceledException) when (sent)
+            {
+                _owed.Enqueue(AnswerKind.Block);
+                if (cancellationToken.IsCancellationRequested)
+                {
+                    throw;
+                }
+
+                throw new InstrumentTimeoutException(Resource, $"no complete block answer to '{query}' within {Seconds(limit)}{Pending()}.", limit);
+            }
+            catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+            {
+                _broken = true;
+                throw new InstrumentTimeoutException(Resource, $"the query '{query}' could not be sent within {Seconds(limit)}.", limit);
+            }
+            finally
+            {
+                Disarm();
+            }
+        }
+        finally
+        {
+            _gate.Release();
+        }
+    }
+
+    /// <summary>Reads the error queue until it reports code 0 (SCPI-99 Vol. 2 §21.8: <c>0,"No error"</c> when empty) and returns the entries, oldest first.</summary>
+    public async ValueTask<IReadOnlyList<InstrumentError>> DrainErrorsAsync(CancellationToken cancellationToken = default)
+    {
+        var errors = new List<InstrumentError>();
+        for (var i = 0; i < MaxErrorsDrained; i++)
+        {
+            var answer = await QueryAsync(Options.ErrorQuery, null, cancellationToken);
+            InstrumentError entry;
+            try
+            {
+                entry = ScpiResponse.ParseError(answer);
+            }
+            catch (FormatException ex)
+            {
+                throw new InstrumentProtocolException(Resource, $"'{Options.ErrorQuery}' answered {ex.Message}", ex);
+            }
+
+            if (entry.Code == 0)
+            {
+                return errors;
+            }
+
+            errors.Add(entry);
+        }
+
+        throw new InstrumentProtocolException(Resource, $"the error queue did not empty after {MaxErrorsDrained} reads of '{Options.ErrorQuery}' (first: {errors[0]}).");
+    }
+
+    /// <summary>Sends a command, then drains the error queue and throws <see cref="InstrumentErrorException"/> when the instrument reported any error.</summary>
+    public async ValueTask WriteCheckedAsync(string command, CancellationToken cancellationToken = default)
+    {
+        await WriteAsync(command, cancellationToken);
+        var errors = await DrainErrorsAsync(cancellationToken);
+        if (errors.Count > 0)
+        {
+            throw new InstrumentErrorException(Resource, $"after '{command}'", errors);
+        }
+    }
+
+    /// <summary>Waits until the instrument has finished every pending operation (IEEE 488.2 §10.19 <c>*OPC?</c> answers 1).</summary>
+    public async ValueTask SynchronizeAsync(TimeSpan? timeout = null, CancellationToken cancellationToken = default)
+    {
+        var answer = await QueryAsync("*OPC?", timeout, cancellationToken);
+        if (answer.Trim() != "1")
+        {
+            throw new InstrumentProtocolException(Resource, $"'*OPC?' answered '{ScpiResponse.Shorten(answer)}'; IEEE 488.2 §10.19 requires 1.");
+        }
+    }
+
+    /// <inheritdoc />
+    public async ValueTask DisposeAsync()
+    {
+        await _gate.WaitAsync();
+        try
+        {
+            if (_disposed)
+            {
+                return;
+            }
+
+            _disposed = true;
+            if (_transport is { } t)
+            {
+                await t.DisposeAsync();
+            }
+
+            _transport = null;
+            _link.Dispose();
+            _timer.Dispose();
+        }
+        finally
+        {
+            _gate.Release();
+        }
+    }
+
+    /// <summary>Makes the session ready: reconnects when the link was lost, discards late and unasked input.</summary>
+    private async ValueTask PrepareAsync(CancellationToken cancellationToken)
+    {
+        ObjectDisposedException.ThrowIf(_disposed, this);
+        if (_transport is null || _broken)
+        {
+            await ReopenAsync("the connection was lost", cancellationToken);
+        }
+
+        if (_owed.Count > 0)
+        {
+            await DiscardLateAnswersAsync(cancellationToken);
+        }
+
+        if (_start < _end)
+        {
+            _traffic?.Warning("discarded {Count} unasked bytes {Text}", _end - _start, ScpiResponse.Shorten(Encoding.Latin1.GetString(_in, _start, _end - _start)));
+            ResetBuffer();
+        }
+    }
+
+    private async ValueTask DiscardLateAnswersAsync(CancellationToken cancellationToken)
+    {
+        var token = Arm(Options.Timeout, cancellationToken);
+        try
+        {
+            while (_owed.Count > 0)
+            {
+                if (_owed.Peek() == AnswerKind.Message)
+                {
+                    var length = await ReceiveMessageAsync("(late answer)", token);
+                    _traffic?.Warning("discarded late answer {Text}", Encoding.Latin1.GetString(_in, _start, length));
+                    Consume(length + _readTerminator.Length);
+                }
+                else
+                {
+                    var (_, length, total) = await ReceiveBlockAsync("(late answer)", token);
+                    _traffic?.Warning("discarded late block answer of {Count} bytes", length);
+                    Consume(total);
+                }
+
+                _owed.Dequeue();
+            }
+        }
+        catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+        {
+            Disarm();
+            await ReopenAsync($"{_owed.Count} late answer(s) did not arrive within {Seconds(Options.Timeout)}", cancellationToken);
+            return;
+        }
+        catch (InstrumentProtocolException ex)
+        {
+            Disarm();
+            await ReopenAsync($"a late answer was malformed ({ex.Message})", cancellationToken);
+            return;
+        }
+        finally
+        {
+            Disarm();
+        }
+
+        foreach (var command in Options.ClearCommands)
+        {
+            await SendWithTimeoutAsync(command, cancellationToken);
+        }
+    }
+
+    private async ValueTask ReopenAsync(string why, CancellationToken cancellationToken)
+    {
+        if (_opener is null)
+        {
+            _broken = true;
+            throw new InstrumentConnectionException(Resource, $"{why}, and this connection cannot be reopened.");
+        }
+
+        if (_transport is { } old)
+        {
+            _transport = null;
+            try
+            {
+                await old.DisposeAsync();
+            }
+            catch (Exception ex) when (ex is IOException or SocketException or ObjectDisposedException)
+            {
+                _traffic?.Debug("closing the old connection failed: {Error}", ex.Message);
+            }
+        }
+
+        ResetBuffer();
+        _owed.Clear();
+        _traffic?.Warning("reconnecting: {Why}", why);
+        var token = Arm(Options.Timeout, cancellationToken);
+        try
+        {
+            _transport = await _opener(token);
+        }
+        catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+        {
+            _broken = true;
+            throw new InstrumentConnectionException(Resource, $"{why}; reconnecting did not succeed within {Seconds(Options.Timeout)}.");
+        }
+        catch (Exception ex) when (ex is IOException or SocketException or UnauthorizedAccessException or InstrumentException)
+        {
+            _broken = true;
+            throw new InstrumentConnectionException(Resource, $"{why}; reconnecting failed: {ex.Message}", ex);
+        }
+        finally
+        {
+            Disarm();
+        }
+
+        _broken = false;
+        Generation++;
+        foreach (var command in Options.ClearCommands)
+        {
+            await SendWithTimeoutAsync(command, cancellationToken);
+        }
+    }
+
+    private async ValueTask SendWithTimeoutAsync(string command, CancellationToken cancellationToken)
+    {
+        var token = Arm(Options.Timeout, cancellationToken);
+        try
+        {
+            await SendAsync(command, token);
+        }
+        catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+        {
+            _broken = true;
+            throw new InstrumentTimeoutException(Resource, $"the command '{command}' could not be sent within {Seconds(Options.Timeout)}.", Options.Timeout);
+        }
+        finally
+        {
+            Disarm();
+        }
+    }
+
+    private async ValueTask SendAsync(string command, CancellationToken token)
+    {
+        ArgumentNullException.ThrowIfNull(command);
+        if (!System.Text.Ascii.IsValid(command) || command.AsSpan().IndexOfAny('\n', '\r') >= 0)
+        {
+            throw new ArgumentException($"'{ScpiResponse.Shorten(command)}' is not a single SCPI message: it must be ASCII without line breaks.", nameof(command));
+        }
+
+        var size = command.Length + _writeTerminator.Length;
+        if (_out.Length < size)
+        {
+            _out = new byte[Math.Max(size, _out.Length * 2)];
+        }
+
+        Encoding.ASCII.GetBytes(command, _out);
+        _writeTerminator.CopyTo(_out, command.Length);
+        _traffic?.Information("tx {Text}", command);
+        try
+        {
+            await _transport!.WriteAsync(_out.AsMemory(0, size), token);
+        }
+        catch (Exception ex) when (ex is IOException or SocketException or ObjectDisposedException)
+        {
+            _broken = true;
+            throw new InstrumentConnectionException(Resource, $"sending '{command}' failed: {ex.Message}", ex);
+        }
+    }
+
+    /// <summary>Waits until a whole terminated message is buffered at <see cref="_start"/>; returns its length without the terminator.</summary>
+    private async ValueTask<int> ReceiveMessageAsync(string query, CancellationToken token)
+    {
+        while (true)
+        {
+            var found = _in.AsSpan(_scan, _end - _scan).IndexOf(_readTerminator);
+            if (found >= 0)
+            {
+                return _scan + found - _start;
+            }
+
+            _scan = Math.Max(_start, _end - (_readTerminator.Length - 1));
+            await FillAsync(query, token);
+        }
+    }
+
+    /// <summary>Waits until a whole arbitrary block and its terminator are buffered; returns where its data is and how many bytes the message takes.</summary>
+    private async ValueTask<(int Offset, int Length, int Total)> ReceiveBlockAsync(string query, CancellationToken token)
+    {
+        await FillToAsync(2, query, token);
+        if (_in[_start] != (byte)'#' || !char.IsAsciiDigit((char)_in[_start + 1]))
+        {
+            throw Malformed(query, "does not start with an arbitrary block header '#<digit>' (IEEE 488.2 §8.7.9)");
+        }
+
+        var digits = _in[_start + 1] - '0';
+        if (digits == 0)
+        {
+            var length = await ReceiveMessageAsync(query, token);
+            return (_start + 2, length - 2, length + _readTerminator.Length);
+        }
+
+        await FillToAsync(2 + digits, query, token);
+        var dataLength = 0L;
+        for (var i = 0; i < digits; i++)
+        {
+            var c = _in[_start + 2 + i];
+            if (!char.IsAsciiDigit((char)c))
+            {
+                throw Malformed(query, $"has a block header with a non-digit in its {digits}-digit length field (IEEE 488.2 §8.7.9)");
+            }
+
+            dataLength = (dataLength * 10) + (c - '0');
+        }
+
+        if (dataLength > Options.MaxResponseBytes)
+        {
+            throw Malformed(query, $"announces a block of {dataLength} bytes, more than the {Options.MaxResponseBytes} allowed");
+        }
+
+        var headerLength = 2 + digits;
+        var total = headerLength + (int)dataLength + _readTerminator.Length;
+        try
+        {
+            await FillToAsync(total, query, token);
+        }
+        catch (OperationCanceledException) when (token.IsCancellationRequested)
+        {
+            _traffic?.Warning("truncated block: {Announced} bytes announced, {Received} received", dataLength, Math.Max(0, _end - _start - headerLength));
+            throw;
+        }
+
+        if (!_in.AsSpan(_start + headerLength + (int)dataLength, _readTerminator.Length).SequenceEqual(_readTerminator))
+        {
+            throw Malformed(query, $"has a block of {dataLength} bytes that is not followed by the terminator (IEEE 488.2 §8.7.9: the length must be exact)");
+        }
+
+        return (_start + headerLength, (int)dataLength, total);
+    }
+
+    private InstrumentProtocolException Malformed(string query, string problem)
+    {
+        var shown = ScpiResponse.Shorten(Encoding.Latin1.GetString(_in, _start, Math.Min(_end - _start, 80)));
+        var end = _in.AsSpan(_start, _end - _start).IndexOf(_readTerminator);
+        if (end >= 0)
+        {
+            Consume(end + _readTerminator.Length);
+        }
+        else
+        {
+            // The rest of the malformed answer is still on its way: discard it before the next exchange.
+            ResetBuffer();
+            _owed.Enqueue(AnswerKind.Message);
+        }
+
+        return new InstrumentProtocolException(Resource, $"the answer to '{query}' ('{shown}') {problem}.");
+    }
+
+    private async ValueTask FillToAsync(int count, string query, CancellationToken token)
+    {
+        while (_end - _start < count)
+        {
+            await FillAsync(query, token);
+        }
+    }
+
+    private async ValueTask FillAsync(string query, CancellationToken token)
+    {
+        if (_end == _in.Length)
+        {
+            if (_start > 0)
+            {
+                Buffer.BlockCopy(_in, _start, _in, 0, _end - _start);
+                _scan -= _start;
+                _end -= _start;
+                _start = 0;
+            }
+            else if (_in.Length >= Options.MaxResponseBytes + _readTerminator.Length + 16)
+            {
+                ResetBuffer();
+                _broken = true;
+                throw new InstrumentProtocolException(Resource, $"the answer to '{query}' is longer than {Options.MaxResponseBytes} bytes without a terminator.");
+            }
+            else
+            {
+                Array.Resize(ref _in, Math.Min(_in.Length * 2, Options.MaxResponseBytes + _readTerminator.Length + 16));
+            }
+        }
+
+        int n;
+        try
+        {
+            n = await _transport!.ReadAsync(_in.AsMemory(_end), token);
+        }
+        catch (Exception ex) when (ex is IOException or SocketException or ObjectDisposedException)
+        {
+            _broken = true;
+            throw new InstrumentConnectionException(Resource, $"reading the answer to '{query}' failed after {_end - _start} bytes: {ex.Message}", ex);
+        }
+
+        if (n == 0)
+        {
+            _broken = true;
+            var received = _end - _start;
+            throw new InstrumentConnectionException(
+                Resource,
+                received == 0
+                    ? $"the instrument closed the connection before answering '{query}'."
+                    : $"the instrument closed the connection in the middle of its answer to '{query}' after {received} bytes ('{ScpiResponse.Shorten(Encoding.Latin1.GetString(_in, _start, Math.Min(received, 80)))}').");
+        }
+
+        _end += n;
+    }
+
+    private string Pending()
+    {
+        if (_start == _end)
+        {
+            return string.Empty;
+        }
+
+        var shown = ScpiResponse.Shorten(Encoding.Latin1.GetString(_in, _start, Math.Min(_end - _start, 80)));
+        return $"; received '{shown}' but not the terminator {Describe(Options.ReadTermination)} (check the termination setting)";
+    }
+
+    private static string Describe(string terminator) => terminator switch
+    {
+        "\n" => "LF",
+        "\r\n" => "CR LF",
+        "\r" => "CR",
+        _ => ScpiResponse.Shorten(terminator),
+    };
+
+    private static string Seconds(TimeSpan t) => $"{t.TotalSeconds:0.###} s";
+
+    private void Consume(int count)
+    {
+        _start += count;
+        if (_start >= _end)
+        {
+            ResetBuffer();
+        }
+        else
+        {
+            _scan = _start;
+        }
+    }
+
+    private void ResetBuffer()
+    {
+        _start = 0;
+        _end = 0;
+        _scan = 0;
+    }
+
+    private CancellationToken Arm(TimeSpan limit, CancellationToken cancellationToken)
+    {
+        if (!_timer.TryReset())
+        {
+            _timer.Dispose();
+            _timer = new CancellationTokenSource(Timeout.InfiniteTimeSpan, _ioTime);
+        }
+
+        _timer.CancelAfter(limit);
+        if (cancellationToken.CanBeCanceled)
+        {
+            _link = cancellationToken.UnsafeRegister(static s => ((CancellationTokenSource)s!).Cancel(), _timer);
+        }
+
+        return _timer.Token;
+    }
+
+    private void Disarm()
+    {
+        _link.Dispose();
+        _link = default;
+        _timer.CancelAfter(Timeout.InfiniteTimeSpan);
+    }
+}

@@ -29,9 +29,9 @@ public static class YamlDocument
 
             throw new DocumentException(fileName, (int)ex.Start.Line, (int)ex.Start.Column, $"not valid YAML: {problem}");
         }
-        catch (InvalidOperationException ex)
+        catch (Exception ex) when (ex is InvalidOperationException or ArgumentException)
         {
-            // YamlDotNet's scanner throws this (without a position) on some unterminated flow collections.
+            // YamlDotNet throws these (without a position) on some malformed flow collections and anchors.
             throw new DocumentException(fileName, 0, 0, $"not valid YAML (an unclosed [ or {{ ?): {ex.Message}");
         }
 
@@ -188,8 +188,23 @@ public sealed class MappingReader
     }
 
     /// <summary>The value under <paramref name="key"/>; an error naming the key when absent.</summary>
-    public NodeReader Required(string key) =>
-        Optional(key) ?? throw Error($"{What}: the key '{key}' is required here.");
+    public NodeReader Required(string key)
+    {
+        if (Optional(key) is { } found)
+        {
+            return found;
+        }
+
+        foreach (var (k, _) in _map.Children)
+        {
+            if (k is YamlScalarNode { Value: { } name } && !_known.Contains(name) && EditDistance(name.ToLowerInvariant(), key.ToLowerInvariant()) <= Math.Max(2, key.Length / 3))
+            {
+                throw new NodeReader(File, k, What).Error($"{What}: unknown key '{name}' (did you mean '{key}'?); the key '{key}' is required here.");
+            }
+        }
+
+        throw Error($"{What}: the key '{key}' is required here.");
+    }
 
     /// <summary>A required string.</summary>
     public string Text(string key) => Required(key).AsString();

@@ -1,0 +1,71 @@
+using ShuntSweep.Engine.Planning;
+using ShuntSweep.Engine.Sequences;
+using ShuntSweep.Testing;
+using Xunit;
+
+namespace ShuntSweep.Engine.Tests;
+
+public sealed class PlannerTests
+{
+    private static RunPlan Plan(string steps, string supplyVolts = "5 V", string fuseA = "500 mA", string limits = "") =>
+        Planner.Plan(SequenceReader.Parse($"sequence: t\n{limits}steps:\n{steps}", "t.yaml"), Some.Bench(supplyVolts, fuseA));
+
+    [Fact]
+    public void Plan_ExpandsPoints_AndInsertsRewiringPrompts()
+    {
+        var plan = Plan("  - sweep: { range: 60mA, currents: [1 mA, 2 mA], samples: 4 }\n  - sweep: { range: 10A, currents: [1 A] }\n");
+        Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
+        Assert.Equal(["wire-mA", "wire-A"], plan.Steps.OfType<PromptStep>().Select(p => p.Id));
+        Assert.Equal(3, plan.Steps.OfType<MeasureStep>().Count());
+        Assert.Equal(4 + 4 + 5, plan.SampleCount);
+        Assert.True(plan.Steps.OfType<PromptStep>().All(p => p.OutputsOff));
+    }
+
+    [Fact]
+    public void Plan_RefusesSetpointAboveFullScale()
+    {
+        var plan = Plan("  - sweep: { range: 60mA, currents: [61 mA] }\n");
+        Assert.False(plan.IsSafe);
+        Assert.Contains(plan.Violations, v => v.Message.Contains("full scale", StringComparison.Ordinal) && v.Line == 3);
+    }
+
+    [Fact]
+    public void Plan_RefusesSetpointAboveDeratedFuseRating()
+    {
+        // 400 mA on a 450 mA fuse is under full scale but above 80 % of the fuse rating (360 mA).
+        var plan = Plan("  - sweep: { range: 400mA, currents: [400 mA] }\n", fuseA: "450 mA");
+        Assert.False(plan.IsSafe);
+        Assert.Contains(plan.Violations, v => v.Message.Contains("derated fuse rating", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Plan_RefusesCurrentThatPushesTheLoadIntoDropout()
+    {
+        // 2 V supply − 0.4 V worst-case drop at 10 A − 0.2 V of wiring leaves 1.4 V < 1.5 V load minimum.
+        var plan = Plan("  - sweep: { range: 10A, currents: [10 A] }\n", supplyVolts: "2 V");
+        Assert.False(plan.IsSafe);
+        Assert.Contains(plan.Violations, v => v.Message.Contains("dropout", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Plan_AcceptsTheSameCurrent_WithEnoughSupplyHeadroom()
+    {
+        var plan = Plan("  - sweep: { range: 10A, currents: [8 A] }\n", supplyVolts: "5 V");
+        Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
+    }
+
+    [Fact]
+    public void Plan_RefusesUnknownRange_NamingTheKnownOnes()
+    {
+        var plan = Plan("  - sweep: { range: 6A, currents: [1 A] }\n");
+        Assert.Contains(plan.Violations, v => v.Message.Contains("60mA, 400mA, 10A", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Plan_EstimatesDuration_FromDwellAndIntegration()
+    {
+        // 2 points × (100 ms dwell + 5 samples × 1 PLC at 50 Hz = 100 ms) = 400 ms.
+        var plan = Plan("  - sweep: { range: 60mA, currents: [1 mA, 2 mA], dwell: 100 ms, samples: 5, nplc: 1 }\n");
+        Assert.Equal(TimeSpan.FromMilliseconds(400), plan.EstimatedDuration);
+    }
+}

@@ -1,0 +1,105 @@
+using CsCheck;
+using ShuntSweep.Core.Documents;
+using ShuntSweep.Engine.Sequences;
+using Xunit;
+
+namespace ShuntSweep.Engine.Tests;
+
+public sealed class SequenceReaderTests
+{
+    private const string Good = """
+        sequence: Smoke
+        defaults:
+          dwell: 50 ms
+          samples: 3
+        limits:
+          maxDrop: 1 V
+          fuseDerating: 80 %
+        steps:
+          - sweep:
+              range: 60mA
+              currents:
+                linear: { from: 10 %, to: 100 %, points: 10 }
+          - sweep:
+              range: 10A
+              currents:
+                log: { from: 10 mA, to: 8 A, points: 5 }
+              settle: { agree: 3, within: 0.1 %, maxWait: 2 s }
+              read: [drop, uut]
+          - hold:
+              range: 10A
+              current: 5 A
+              duration: 10 s
+              rate: 10 Hz
+          - prompt: Check the fuse is cool.
+        """;
+
+    [Fact]
+    public void GoodSequence_ExpandsSeriesAndDefaults()
+    {
+        var s = SequenceReader.Parse(Good, "good.yaml");
+        var sweep = Assert.IsType<SweepItem>(s.Items[0]);
+        Assert.Equal(10, sweep.Currents.Count);
+        Assert.True(sweep.Currents[0].IsFraction);
+        Assert.Equal(0.1, sweep.Currents[0].Value, 12);
+        Assert.Equal(3, sweep.Settings.Samples);
+        var log = Assert.IsType<SweepItem>(s.Items[1]);
+        Assert.Equal(0.01, log.Currents[0].Value, 12);
+        Assert.Equal(8, log.Currents[^1].Value, 9);
+        Assert.Equal(Math.Sqrt(0.01 * 8), log.Currents[2].Value, 9);
+        Assert.True(log.Settings.Settling.IsAdaptive);
+        Assert.Equal(Readings.Drop | Readings.Uut, log.Settings.Read);
+        var hold = Assert.IsType<HoldItem>(s.Items[2]);
+        Assert.Equal(TimeSpan.FromMilliseconds(100), hold.Interval);
+        Assert.IsType<PromptItem>(s.Items[3]);
+        Assert.Equal(0.8, s.Limits.FuseDerating, 12);
+    }
+
+    // A catalogue of bad files: each must fail with a DocumentException at the stated line and column, saying what was expected.
+    [Theory]
+    [InlineData("sequence: x\nstep:\n  - sweep: {}\n", 2, 1, "did you mean 'steps'")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      currents: [10 mV]\n", 5, 18, "amperes")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      currents: [10]\n", 5, 18, "no unit")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      curents: [1 mA]\n", 5, 7, "did you mean 'currents'")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      currents: [1 mA]\n      dwell: 5 A\n", 6, 14, "seconds")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      currents:\n        log: { from: 0 mA, to: 1 mA, points: 3 }\n", 6, 22, "above zero")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      currents: [1 mA]\n      read: [uut]\n", 6, 13, "'drop' must be read")]
+    [InlineData("sequence: x\nsteps:\n  - sweep:\n      range: 60mA\n      currents: [1 mA]\n      samples: 0\n", 6, 16, "outside")]
+    [InlineData("sequence: x\nsteps:\n  - sweep: { range: a, currents: [1 mA] }\n    hold: { range: a, current: 1 mA, duration: 1 s, rate: 1 Hz }\n", 3, 5, "exactly one of")]
+    [InlineData("sequence: x\nsteps: []\n", 2, 8, "empty")]
+    [InlineData("steps:\n  - prompt: hi\n", 1, 1, "'sequence' is required")]
+    [InlineData("sequence: x\nlimits:\n  fuseDerating: 300 %\nsteps:\n  - prompt: hi\n", 3, 17, "fraction")]
+    [InlineData("sequence: x\nsteps:\n  - hold: { range: a, current: 1 mA, duration: 1 s, rate: 0 Hz }\n", 3, 59, "above zero")]
+    public void BadSequence_FailsWithPosition(string text, int line, int column, string expected)
+    {
+        var ex = Assert.Throws<DocumentException>(() => SequenceReader.Parse(text, "bad.yaml"));
+        Assert.Contains(expected, ex.Message, StringComparison.Ordinal);
+        Assert.Equal((line, column), (ex.Line, ex.Column));
+        Assert.StartsWith($"bad.yaml:{line}:{column}:", ex.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void RandomText_NeverCrashesTheReader() =>
+        Gen.String.Sample(text => Parse(text), iter: 2000);
+
+    [Fact]
+    public void MutatedGoodSequence_NeverCrashesTheReader() =>
+        Gen.Select(Gen.Int[0, Good.Length - 1], Gen.Int[0, Good.Length - 1], Gen.Char["{}[]:,-#&*!|>'\"% \n\t0aZ"])
+            .Sample((at, cut, c) =>
+            {
+                var mutated = Good[..at] + c + Good[Math.Min(Good.Length, Math.Max(at, cut))..];
+                Parse(mutated);
+            }, iter: 3000);
+
+    private static void Parse(string text)
+    {
+        try
+        {
+            SequenceReader.Parse(text, "fuzz.yaml");
+        }
+        catch (DocumentException)
+        {
+            // The only failure the reader may report.
+        }
+    }
+}

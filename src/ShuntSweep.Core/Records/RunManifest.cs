@@ -1,7 +1,7 @@
 using System.Security.Cryptography;
 using System.Text.Json;
 
-namespace ShuntSweep.Engine.Journal;
+namespace ShuntSweep.Core.Records;
 
 /// <summary>What a run was: the exact sequence and bench (by hash), the instruments that answered, the software, the start and the seed.</summary>
 /// <remarks>Resume compares the hashes and refuses a changed sequence or bench.</remarks>

@@ -13,4 +13,26 @@ public sealed record AnalysisOptions
 
     /// <summary>The coverage probability of expanded uncertainties. The default value is 0.95.</summary>
     public double CoverageProbability { get; init; } = 0.95;
+
+    /// <summary>A step with at least this many samples is examined as a thermal hold. The default value is 30.</summary>
+    public int ThermalHoldMinimumSamples { get; init; } = 30;
+
+    /// <summary>The temperature of the clamp diodes for V_T = kT/q, in kelvin. The default value is 296.15 (23 °C).</summary>
+    public double DiodeTemperatureKelvin { get; init; } = 296.15;
+
+    /// <summary>The reference ammeter's accuracy as a fraction of reading, taken as a rectangular limit. The default value is 5e-5 (50 ppm).</summary>
+    public double ReferenceFractionOfReading { get; init; } = 5e-5;
+
+    /// <summary>The reference ammeter's accuracy floor in amperes, taken as a rectangular limit. The default value is 0.</summary>
+    public double ReferenceFloorA { get; init; }
+
+    /// <summary>Monte Carlo trials per point for the JCGM 101 cross-check; 0 skips it. The default value is 10 000.</summary>
+    public int MonteCarloTrials { get; init; } = 10_000;
+
+    /// <summary>The seed of the Monte Carlo generator, so results are reproducible. The default value is 1.</summary>
+    public int Seed { get; init; } = 1;
+
+    /// <summary>The temperature coefficient assumed for the fuse element, 1/K, to turn the heating coefficient into a thermal resistance.
+    /// The default value is 0.0038 (silver near 20 °C, handbook).</summary>
+    public double FuseTemperatureCoefficient { get; init; } = 0.0038;
 }

@@ -8,6 +8,7 @@ internal sealed record MeasuredPoint(
     int Samples,
     double SetpointA,
     double CurrentA,
+    double CurrentStdDevA,
     double DropVolts,
     double DropStdDevVolts,
     double ReadingA,
@@ -16,6 +17,9 @@ internal sealed record MeasuredPoint(
 {
     /// <summary>The standard uncertainty of the mean drop used to weight the point (set by <see cref="PointTable.AssignWeights"/>).</summary>
     public double DropUncertaintyVolts { get; set; } = double.NaN;
+
+    /// <summary>An uncertainty fixed by another fit (a thermal hold's settled value) that weighting must keep; NaN otherwise.</summary>
+    public double FixedUncertaintyVolts { get; init; } = double.NaN;
 }
 
 /// <summary>Groups samples into points (one per range and step) and derives each point's fit weight from its scatter.</summary>
@@ -29,11 +33,11 @@ internal static class PointTable
     public static MeasuredPoint Reduce(int step, IReadOnlyList<Sample> samples)
     {
         var (drop, dropSd) = MeanSd(samples.Select(s => s.Burden.Volts));
-        var (current, _) = MeanSd(samples.Select(s => s.Reference.Amperes));
+        var (current, currentSd) = MeanSd(samples.Select(s => s.Reference.Amperes));
         var (setpoint, _) = MeanSd(samples.Select(s => s.Setpoint.Amperes));
         var readings = samples.Select(s => s.UutReading).Where(double.IsFinite).ToList();
         var (reading, readingSd) = readings.Count > 0 && readings.Count == samples.Count ? MeanSd(readings) : (double.NaN, double.NaN);
-        return new MeasuredPoint(step, samples.Count, setpoint, current, drop, dropSd, reading, readingSd, readings.Count == samples.Count ? readings.Count : 0);
+        return new MeasuredPoint(step, samples.Count, setpoint, current, currentSd, drop, dropSd, reading, readingSd, readings.Count == samples.Count ? readings.Count : 0);
     }
 
     /// <summary>Sets each point's drop uncertainty from its own scatter shrunk towards the pooled scatter of all points.</summary>
@@ -45,7 +49,7 @@ internal static class PointTable
         var pooledDof = 0;
         foreach (var p in points)
         {
-            if (p.Samples > 1 && double.IsFinite(p.DropStdDevVolts))
+            if (p.Samples > 1 && double.IsFinite(p.DropStdDevVolts) && double.IsNaN(p.FixedUncertaintyVolts))
             {
                 pooledSs += p.DropStdDevVolts * p.DropStdDevVolts * (p.Samples - 1);
                 pooledDof += p.Samples - 1;
@@ -55,6 +59,12 @@ internal static class PointTable
         var pooled = pooledDof > 0 ? pooledSs / pooledDof : 0;
         foreach (var p in points)
         {
+            if (double.IsFinite(p.FixedUncertaintyVolts))
+            {
+                p.DropUncertaintyVolts = p.FixedUncertaintyVolts;
+                continue;
+            }
+
             if (pooled <= 0)
             {
                 p.DropUncertaintyVolts = 1.0;
@@ -73,7 +83,7 @@ internal static class PointTable
         }
     }
 
-    private static (double Mean, double Sd) MeanSd(IEnumerable<double> values)
+    internal static (double Mean, double Sd) MeanSd(IEnumerable<double> values)
     {
         double mean = 0, m2 = 0;
         var n = 0;

@@ -1,8 +1,25 @@
+using ShuntSweep.Analysis.Uncertainty;
+
 namespace ShuntSweep.Analysis.Results;
 
 /// <summary>Everything the analysis found in one run: one entry per range, in the order the ranges were measured.</summary>
 /// <param name="Ranges">The per-range characterisation.</param>
-public sealed record CharacterisationResult(IReadOnlyList<RangeResult> Ranges);
+/// <param name="Decomposition">Per jack: the common series part separated from each range's shunt, with the hypothesis that separated them.</param>
+/// <param name="Conformity">The worst conformity statement over all ranges with UUT readings (null when the UUT was not read).</param>
+/// <param name="DiodeTemperatureK">The temperature at which V_T = kT/q was taken for the clamp-diode model.</param>
+/// <param name="CoverageProbability">The coverage probability of every expanded uncertainty in the file.</param>
+public sealed record CharacterisationResult(
+    IReadOnlyList<RangeResult> Ranges,
+    IReadOnlyList<JackDecomposition>? Decomposition = null,
+    ConformitySummary? Conformity = null,
+    double DiodeTemperatureK = 296.15,
+    double CoverageProbability = 0.95)
+{
+    /// <summary>The range called <paramref name="name"/>; throws naming the ranges present otherwise.</summary>
+    public RangeResult Range(string name) =>
+        Ranges.FirstOrDefault(r => r.Name == name)
+        ?? throw new KeyNotFoundException($"The result has no range '{name}'; it has {string.Join(", ", Ranges.Select(r => r.Name))}.");
+}
 
 /// <summary>A value with its standard uncertainty (k = 1), in the unit its field name states.</summary>
 /// <param name="Value">The estimate.</param>
@@ -14,11 +31,19 @@ public sealed record Estimate(double Value, double StandardUncertainty);
 /// <param name="Jack">The jack the range is measured through.</param>
 /// <param name="FullScaleA">The range's full scale in amperes (from the UUT, or the largest |setpoint| measured).</param>
 /// <param name="Model">The name of the drop model chosen for the range.</param>
-/// <param name="ResistanceOhms">The small-signal series resistance of the range (slope of drop against current near zero).</param>
+/// <param name="ResistanceOhms">The small-signal series resistance of the range (slope of drop against current at zero).</param>
 /// <param name="OffsetVolts">The drop at zero current (thermal EMFs, amplifier offset, voltmeter zero).</param>
-/// <param name="ResidualStdDevVolts">The standard deviation of the point residuals about the chosen model, in volts (unit-weight scale when weighted).</param>
+/// <param name="ResidualStdDevVolts">The standard deviation of the point residuals about the chosen model, in volts.</param>
 /// <param name="BurdenAtFullScaleVolts">The drop the chosen model predicts at full scale.</param>
 /// <param name="Points">The measured points (one per step) with their residuals.</param>
+/// <param name="Parameters">The chosen model's parameters with units and standard uncertainties.</param>
+/// <param name="Correlation">The correlation matrix of <paramref name="Parameters"/>, row by row.</param>
+/// <param name="ModelComparison">Every candidate model's fit statistics, the choice and the runner-up.</param>
+/// <param name="Thermal">The thermal holds of the range, each fitted with one or two exponentials.</param>
+/// <param name="ReadingError">The UUT's reading error at each point with its uncertainty budget and conformity.</param>
+/// <param name="Conformity">The range's worst conformity statement over its points.</param>
+/// <param name="FittedUpToA">The largest |current| the model was fitted to: predictions beyond it are extrapolations.</param>
+/// <param name="ReadingLimitA">The smallest |current| at which the UUT reading overloaded inside the range (amplifier output swing), when seen.</param>
 public sealed record RangeResult(
     string Name,
     string Jack,
@@ -28,14 +53,30 @@ public sealed record RangeResult(
     Estimate OffsetVolts,
     double ResidualStdDevVolts,
     double BurdenAtFullScaleVolts,
-    IReadOnlyList<PointResult> Points);
+    IReadOnlyList<PointResult> Points,
+    IReadOnlyList<ParameterResult>? Parameters = null,
+    IReadOnlyList<IReadOnlyList<double>>? Correlation = null,
+    ModelComparison? ModelComparison = null,
+    IReadOnlyList<ThermalHoldResult>? Thermal = null,
+    IReadOnlyList<ReadingErrorPoint>? ReadingError = null,
+    ConformitySummary? Conformity = null,
+    double FittedUpToA = double.NaN,
+    double ReadingLimitA = double.NaN);
+
+/// <summary>One fitted model parameter.</summary>
+/// <param name="Name">Its name in the model.</param>
+/// <param name="Unit">Its SI unit.</param>
+/// <param name="Value">The estimate.</param>
+/// <param name="StandardUncertainty">Its standard uncertainty.</param>
+/// <param name="Meaning">What it stands for physically.</param>
+public sealed record ParameterResult(string Name, string Unit, double Value, double StandardUncertainty, string Meaning);
 
 /// <summary>One measured point of a range: the means of its samples, their scatter, and how the chosen model fits it.</summary>
 /// <param name="Step">The step index of the point in the run.</param>
 /// <param name="Samples">How many samples the point has.</param>
 /// <param name="SetpointA">The load setpoint.</param>
 /// <param name="CurrentA">The mean reference current.</param>
-/// <param name="DropVolts">The mean burden voltage.</param>
+/// <param name="DropVolts">The mean burden voltage (for a thermal hold: its settled value).</param>
 /// <param name="DropStdDevVolts">The standard deviation of the burden samples (NaN with one sample).</param>
 /// <param name="DropUncertaintyVolts">The standard uncertainty of the mean drop that weights the point in the fit.</param>
 /// <param name="ReadingA">The mean UUT reading (NaN when the UUT was not read or showed overload).</param>
@@ -54,3 +95,107 @@ public sealed record PointResult(
     double ResidualVolts,
     double StudentisedResidual,
     bool Outlier);
+
+/// <summary>How the candidate drop models compared on one range.</summary>
+/// <param name="Chosen">The chosen model.</param>
+/// <param name="RunnerUp">The next best model by AICc (null when only one fitted).</param>
+/// <param name="Rule">The rule that made the choice, in words.</param>
+/// <param name="Candidates">Every candidate, fitted or not.</param>
+public sealed record ModelComparison(string Chosen, string? RunnerUp, string Rule, IReadOnlyList<ModelCandidate> Candidates);
+
+/// <summary>One candidate model's fit statistics.</summary>
+/// <param name="Model">The model's name.</param>
+/// <param name="ParameterCount">Its number of parameters.</param>
+/// <param name="Fitted">Whether it could be fitted (and its parameters are physically valid).</param>
+/// <param name="Reason">Why it was not fitted.</param>
+/// <param name="ChiSquare">The weighted residual sum of squares.</param>
+/// <param name="ResidualStdDevVolts">The unweighted residual standard deviation.</param>
+/// <param name="Aicc">The corrected Akaike information criterion (lower is better).</param>
+/// <param name="Bic">The Bayesian information criterion (lower is better).</param>
+/// <param name="NestedOver">The simpler model it was F-tested against.</param>
+/// <param name="FTestPValue">The p-value of that F-test (small: the extra parameters are needed).</param>
+public sealed record ModelCandidate(
+    string Model,
+    int ParameterCount,
+    bool Fitted,
+    string? Reason,
+    double ChiSquare,
+    double ResidualStdDevVolts,
+    double Aicc,
+    double Bic,
+    string? NestedOver,
+    double FTestPValue);
+
+/// <summary>A thermal hold fitted with one or two exponentials: V(t) = V∞ + Σ Aₖ·exp(−t/τₖ).</summary>
+/// <param name="Step">The hold's step index.</param>
+/// <param name="Samples">The number of samples in the hold.</param>
+/// <param name="CurrentA">The hold current.</param>
+/// <param name="DurationSeconds">The time from its first to its last sample.</param>
+/// <param name="Model">one-exponential or two-exponential.</param>
+/// <param name="SettledDropVolts">V∞, the settled drop.</param>
+/// <param name="Terms">The exponential terms, fastest first.</param>
+/// <param name="ResidualStdDevVolts">The residual standard deviation of the samples about the fit.</param>
+public sealed record ThermalHoldResult(
+    int Step,
+    int Samples,
+    double CurrentA,
+    double DurationSeconds,
+    string Model,
+    Estimate SettledDropVolts,
+    IReadOnlyList<ThermalTerm> Terms,
+    double ResidualStdDevVolts);
+
+/// <summary>One exponential term of a thermal hold.</summary>
+/// <param name="AmplitudeVolts">Aₖ: negative when the drop rises as the element heats.</param>
+/// <param name="TimeConstantSeconds">τₖ = R_th·C_th of the element.</param>
+/// <param name="AttributedTo">Which element the term is attributed to.</param>
+public sealed record ThermalTerm(Estimate AmplitudeVolts, Estimate TimeConstantSeconds, string AttributedTo);
+
+/// <summary>The UUT's reading error at one point against its accuracy specification.</summary>
+/// <param name="Step">The point's step.</param>
+/// <param name="ReferenceA">The reference current.</param>
+/// <param name="ReadingA">The UUT's mean reading.</param>
+/// <param name="ErrorA">Reading minus reference.</param>
+/// <param name="Budget">The GUM uncertainty budget of the error.</param>
+/// <param name="MonteCarlo">The JCGM 101 Monte Carlo cross-check of the budget (null when switched off).</param>
+/// <param name="Statement">The conformity statement against ±(% of reading + counts).</param>
+public sealed record ReadingErrorPoint(
+    int Step,
+    double ReferenceA,
+    double ReadingA,
+    double ErrorA,
+    GumBudget Budget,
+    MonteCarloCheck? MonteCarlo,
+    ConformityStatement Statement);
+
+/// <summary>The worst conformity over a set of points (a range, or the whole UUT).</summary>
+/// <param name="SimpleAcceptance">The worst verdict under simple acceptance.</param>
+/// <param name="GuardBanded">The worst verdict with the guard band w = U.</param>
+/// <param name="MinimumTestUncertaintyRatio">The smallest TUR over the points.</param>
+/// <param name="Points">The number of points judged.</param>
+public sealed record ConformitySummary(ConformityVerdict SimpleAcceptance, ConformityVerdict GuardBanded, double MinimumTestUncertaintyRatio, int Points);
+
+/// <summary>The series parts of one jack separated from its ranges' shunts.</summary>
+/// <param name="Jack">The jack.</param>
+/// <param name="Ranges">The ranges of the jack that were used.</param>
+/// <param name="Separations">Each hypothesis that separated the common series part, with its consistency.</param>
+public sealed record JackDecomposition(string Jack, IReadOnlyList<string> Ranges, IReadOnlyList<Separation> Separations);
+
+/// <summary>One way of separating the jack's common series part (fuse, contacts, leads) from the shunts, and how well the data agree with it.</summary>
+/// <param name="Hypothesis">The hypothesis, in words.</param>
+/// <param name="CommonSeriesOhms">The common series resistance of the jack.</param>
+/// <param name="ShuntOhms">Each range's shunt, by range name.</param>
+/// <param name="ChiSquare">χ² of the hypothesis against the per-range fits.</param>
+/// <param name="DegreesOfFreedom">Its degrees of freedom (0: exactly determined, no check possible).</param>
+/// <param name="PValue">P(χ²_ν ≥ χ²): small values reject the hypothesis.</param>
+/// <param name="Consistent">Whether p ≥ 0.05 (or no check was possible).</param>
+/// <param name="Extra">Further quantities of the separation (heating coefficient, shunt scale), by name.</param>
+public sealed record Separation(
+    string Hypothesis,
+    Estimate CommonSeriesOhms,
+    IReadOnlyDictionary<string, Estimate> ShuntOhms,
+    double ChiSquare,
+    int DegreesOfFreedom,
+    double PValue,
+    bool Consistent,
+    IReadOnlyDictionary<string, Estimate>? Extra = null);

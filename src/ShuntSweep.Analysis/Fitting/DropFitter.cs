@@ -1,0 +1,147 @@
+using MathNet.Numerics.Distributions;
+using ShuntSweep.Analysis.Models;
+
+namespace ShuntSweep.Analysis.Fitting;
+
+/// <summary>A drop model fitted to a range's points, or the reason it could not be.</summary>
+internal sealed record CandidateFit(
+    IDropModel Model,
+    double[] Parameters,
+    double[,] Covariance,
+    double ChiSquare,
+    int DegreesOfFreedom,
+    double[] Residuals,
+    double[] Leverages,
+    string? FailureReason)
+{
+    /// <summary>Whether the fit succeeded and its parameters are physically valid.</summary>
+    public bool Succeeded => FailureReason is null;
+
+    /// <summary>The number of points.</summary>
+    public int Points => Residuals.Length;
+
+    /// <summary>AICc = n·ln(χ²/n) + 2K + 2K(K+1)/(n−K−1), K counting the residual scale as a parameter.</summary>
+    public double Aicc
+    {
+        get
+        {
+            var n = Points;
+            var k = Parameters.Length + 1;
+            return n - k - 1 <= 0 || !Succeeded ? double.PositiveInfinity : (n * Math.Log(ChiSquare / n)) + (2 * k) + (2.0 * k * (k + 1) / (n - k - 1));
+        }
+    }
+
+    /// <summary>BIC = n·ln(χ²/n) + K·ln n.</summary>
+    public double Bic => Succeeded ? (Points * Math.Log(ChiSquare / Points)) + ((Parameters.Length + 1) * Math.Log(Points)) : double.PositiveInfinity;
+
+    /// <summary>The standard uncertainty of the small-signal resistance, propagated from the covariance by a numerical gradient.</summary>
+    public double ResistanceUncertainty() => Math.Sqrt(Propagate(p => Model.SmallSignalResistance(p)));
+
+    /// <summary>The variance of g(p) by the law of propagation with a central-difference gradient.</summary>
+    public double Propagate(Func<double[], double> g)
+    {
+        ArgumentNullException.ThrowIfNull(g);
+        var m = Parameters.Length;
+        var grad = new double[m];
+        var q = (double[])Parameters.Clone();
+        for (var j = 0; j < m; j++)
+        {
+            var h = Math.Max(Math.Sqrt(Covariance[j, j]) * 1e-3, Math.Abs(Parameters[j]) * 1e-9) + 1e-300;
+            q[j] = Parameters[j] + h;
+            var up = g(q);
+            q[j] = Parameters[j] - h;
+            var down = g(q);
+            q[j] = Parameters[j];
+            grad[j] = (up - down) / (2 * h);
+        }
+
+        var v = 0.0;
+        for (var i = 0; i < m; i++)
+        {
+            for (var j = 0; j < m; j++)
+            {
+                v += grad[i] * Covariance[i, j] * grad[j];
+            }
+        }
+
+        return Math.Max(v, 0);
+    }
+}
+
+/// <summary>Fits drop models to points, by QR for linear models and Levenberg–Marquardt for the rest, and compares them.</summary>
+internal static class DropFitter
+{
+    /// <summary>Fits <paramref name="model"/>; a failure is returned with its reason, never thrown.</summary>
+    public static CandidateFit Fit(IDropModel model, DropData data)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(data);
+        var start = model.Start(data);
+        if (start is null)
+        {
+            return Failed(model, data, "the points show nothing this model explains");
+        }
+
+        try
+        {
+            if (model.IsLinear)
+            {
+                var lin = LinearLeastSquares.Fit(data.Current, data.Drop, data.Weight, model.ParameterCount, (x, row) => model.Evaluate(x, start, row));
+                return new CandidateFit(model, lin.Parameters, lin.Covariance, lin.ChiSquare, lin.DegreesOfFreedom, lin.Residuals, lin.Leverages, null);
+            }
+
+            var imax = data.MaxAbsCurrent;
+            var fit = LevenbergMarquardt.Fit(model, data.Current, data.Drop, data.Weight, start, p => model.IsValid(p, imax));
+            if (!model.IsValid(fit.Parameters, imax))
+            {
+                return Failed(model, data, "the fitted parameters are outside the model's validity");
+            }
+
+            return new CandidateFit(model, fit.Parameters, fit.Covariance, fit.ChiSquare, fit.DegreesOfFreedom, fit.Residuals, fit.Leverages, null);
+        }
+        catch (Exception e) when (e is FitFailedException or ArgumentException)
+        {
+            return Failed(model, data, e.Message);
+        }
+    }
+
+    /// <summary>The p-value of the F-test of <paramref name="complex"/> against the nested <paramref name="simple"/>.</summary>
+    public static double NestedFTest(CandidateFit simple, CandidateFit complex)
+    {
+        ArgumentNullException.ThrowIfNull(simple);
+        ArgumentNullException.ThrowIfNull(complex);
+        var extra = complex.Parameters.Length - simple.Parameters.Length;
+        if (!simple.Succeeded || !complex.Succeeded || extra <= 0 || complex.DegreesOfFreedom <= 0)
+        {
+            return double.NaN;
+        }
+
+        var f = (simple.ChiSquare - complex.ChiSquare) / extra / (complex.ChiSquare / complex.DegreesOfFreedom);
+        return f <= 0 ? 1.0 : 1.0 - FisherSnedecor.CDF(extra, complex.DegreesOfFreedom, f);
+    }
+
+    /// <summary>Chooses among successful fits: lowest AICc, then the fewest parameters among those within 2 AICc units of it.</summary>
+    public static (CandidateFit Chosen, CandidateFit? RunnerUp) Choose(IReadOnlyList<CandidateFit> fits)
+    {
+        ArgumentNullException.ThrowIfNull(fits);
+        var ok = fits.Where(f => f.Succeeded && double.IsFinite(f.Aicc)).ToList();
+        if (ok.Count == 0)
+        {
+            ok = fits.Where(f => f.Succeeded).ToList();
+            if (ok.Count == 0)
+            {
+                throw new FitFailedException("No drop model could be fitted: " + string.Join("; ", fits.Select(f => $"{f.Model.Name}: {f.FailureReason}")));
+            }
+
+            return (ok[0], ok.Count > 1 ? ok[1] : null);
+        }
+
+        var best = ok.Min(f => f.Aicc);
+        var chosen = ok.Where(f => f.Aicc <= best + 2).OrderBy(f => f.Parameters.Length).ThenBy(f => f.Aicc).First();
+        var runnerUp = ok.Where(f => f != chosen).OrderBy(f => f.Aicc).FirstOrDefault();
+        return (chosen, runnerUp);
+    }
+
+    private static CandidateFit Failed(IDropModel model, DropData data, string reason) =>
+        new(model, new double[model.ParameterCount], new double[model.ParameterCount, model.ParameterCount], double.NaN, data.Current.Length - model.ParameterCount, new double[data.Current.Length], new double[data.Current.Length], reason);
+}

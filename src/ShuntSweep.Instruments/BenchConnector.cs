@@ -5,6 +5,7 @@ using ShuntSweep.Core.Timing;
 using ShuntSweep.Instruments.Drivers;
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 using ShuntSweep.Instruments.Resources;
 using ShuntSweep.Instruments.Transports;
 
@@ -19,6 +20,7 @@ public static class BenchConnector
     /// <param name="simulated">Opens the in-process stream of a simulated instrument by name (for <c>SIM::name</c> resources).</param>
     /// <param name="traffic">Receives every command and response; null to record nothing.</param>
     /// <param name="cancellationToken">Cancels connecting.</param>
+    /// <param name="visa">Opens resources that need a VISA library (GPIB, VXI-11, HiSLIP); untested, see docs/instruments.md.</param>
     /// <exception cref="Core.Documents.DocumentException">An instrument's settings or resource string are wrong.</exception>
     /// <exception cref="InstrumentException">An instrument could not be reached or did not answer properly.</exception>
     public static async Task<InstrumentBench> ConnectAsync(
@@ -26,7 +28,8 @@ public static class BenchConnector
         IBenchClock clock,
         Func<string, Stream>? simulated,
         ILogger? traffic,
-        CancellationToken cancellationToken)
+        CancellationToken cancellationToken,
+        IVisaLibrary? visa = null)
     {
         ArgumentNullException.ThrowIfNull(bench);
         ArgumentNullException.ThrowIfNull(clock);
@@ -39,7 +42,7 @@ public static class BenchConnector
             .Select(p => (p.Entry, p.Address, p.Settings, Profile: LoadProfile(p.Entry, p.Settings)))
             .ToList();
 
-        var connecting = plans.Select(p => ConnectOneAsync(p.Entry.Role, p.Address, p.Settings, p.Profile, simulated, ioTime, traffic, cancellationToken)).ToList();
+        var connecting = plans.Select(p => ConnectOneAsync(p.Entry.Role, p.Address, p.Settings, p.Profile, simulated, visa, ioTime, traffic, cancellationToken)).ToList();
         try
         {
             await Task.WhenAll(connecting);
@@ -90,12 +93,13 @@ public static class BenchConnector
         Func<string, Stream>? simulated,
         TimeProvider ioTime,
         ILogger? traffic,
+        IVisaLibrary? visa,
         CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(address);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(profile);
-        var opener = TransportFactory.For(address, settings, simulated);
+        var opener = TransportFactory.For(address, settings, simulated, visa);
         var options = settings.Session with
         {
             ClearCommands = profile.Commands("common.afterResync"),
@@ -112,7 +116,7 @@ public static class BenchConnector
         {
             throw new InstrumentConnectionException(address.Text, $"no connection within {options.Timeout.TotalSeconds:0.###} s.");
         }
-        catch (Exception ex) when (ex is SocketException or IOException or UnauthorizedAccessException or InvalidOperationException or NotSupportedException)
+        catch (Exception ex) when (ex is SocketException or IOException or UnauthorizedAccessException or ArgumentException)
         {
             throw new InstrumentConnectionException(address.Text, $"cannot connect: {ex.Message}", ex);
         }
@@ -126,24 +130,31 @@ public static class BenchConnector
         DriverSettings settings,
         InstrumentProfile profile,
         Func<string, Stream>? simulated,
+        IVisaLibrary? visa,
         TimeProvider ioTime,
         ILogger? traffic,
         CancellationToken cancellationToken)
     {
-        var session = await OpenSessionAsync(address, settings, profile, simulated, ioTime, traffic, cancellationToken);
+        var session = await OpenSessionAsync(address, settings, profile, simulated, ioTime, traffic, visa, cancellationToken);
         try
         {
+            var resilience = InstrumentResilience.Create(address.Text, settings.Resilience, ioTime);
             ScpiInstrument driver = role switch
             {
-                InstrumentRole.Supply => new ScpiSupply(session, profile),
-                InstrumentRole.Load => new ScpiLoad(session, profile),
-                InstrumentRole.DropMeter => new ScpiVoltmeter(session, profile, settings.Timing),
-                InstrumentRole.UutMeter => new ScpiUutMeter(session, profile, settings.Timing, settings.Nplc),
-                InstrumentRole.Reference => new ScpiReferenceAmmeter(session, profile, settings.Timing),
+                InstrumentRole.Supply => new ScpiSupply(session, profile, resilience),
+                InstrumentRole.Load => new ScpiLoad(session, profile, resilience),
+                InstrumentRole.DropMeter => new ScpiVoltmeter(session, profile, settings.Timing, resilience),
+                InstrumentRole.UutMeter => new ScpiUutMeter(session, profile, settings.Timing, settings.Nplc, resilience),
+                InstrumentRole.Reference => new ScpiReferenceAmmeter(session, profile, settings.Timing, resilience),
                 _ => throw new ArgumentOutOfRangeException(nameof(role), role, "unknown role"),
             };
             var identity = await driver.IdentifyAsync(cancellationToken);
-            var errors = await session.DrainErrorsAsync(cancellationToken);
+            var errors = await driver.ReadErrorsAsync(cancellationToken);
+            if (driver is ScpiUutMeter uut)
+            {
+                await uut.ApplyNplcAsync(cancellationToken);
+            }
+
             if (errors.Count > 0)
             {
                 traffic?.ForContext("Resource", session.Resource).Warning("errors left in the queue on connection: {Errors}", string.Join("; ", errors));

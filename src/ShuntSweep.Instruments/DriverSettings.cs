@@ -20,6 +20,7 @@ public sealed record SerialSettings(int Baud = 9600, Parity Parity = Parity.None
 /// <param name="Timing">Line frequency, overhead and fetch margin of an integrating meter.</param>
 /// <param name="Nplc">The integration time the UUT meter is set to (where its profile can set it), in power-line cycles.</param>
 /// <param name="Serial">Serial line settings; null unless the bench file gives any.</param>
+/// <param name="Resilience">Timeout, retries and circuit breaker of the instrument.</param>
 /// <param name="Device">A device file that overrides the automatic mapping of a USB resource to /dev/usbtmcN.</param>
 /// <param name="BaseDirectory">The directory of the bench file, against which relative profile paths are resolved.</param>
 public sealed record DriverSettings(
@@ -28,11 +29,12 @@ public sealed record DriverSettings(
     MeterTiming Timing,
     double Nplc,
     SerialSettings? Serial,
+    Resilience.ResilienceSettings Resilience,
     string? Device,
     string? BaseDirectory)
 {
     /// <summary>The settings used when nothing is configured (probe of a bare resource string).</summary>
-    public static DriverSettings Default { get; } = new(Profiles.InstrumentProfile.DefaultName, new SessionOptions(), MeterTiming.Default, 1, null, null, null);
+    public static DriverSettings Default { get; } = new(Profiles.InstrumentProfile.DefaultName, new SessionOptions(), MeterTiming.Default, 1, null, Instruments.Resilience.ResilienceSettings.Default, null, null);
 
     /// <summary>Reads the settings of an instrument mapping (whose <c>resource</c> was already read) and rejects unknown keys.</summary>
     public static DriverSettings Read(MappingReader map, string? baseDirectory)
@@ -70,6 +72,7 @@ public sealed record DriverSettings(
 
         var serial = ReadSerial(map);
         var device = map.StringOr("device", null);
+        var resilience = Instruments.Resilience.ResilienceSettings.Read(map.Mapping("resilience"));
         map.Finish();
 
         var session = new SessionOptions
@@ -78,7 +81,7 @@ public sealed record DriverSettings(
             ReadTermination = read,
             WriteTermination = write,
         };
-        return new DriverSettings(profile, session, new MeterTiming(lineFrequency, TimeSpan.FromSeconds(overhead), margin), nplc, serial, device, baseDirectory);
+        return new DriverSettings(profile, session, new MeterTiming(lineFrequency, TimeSpan.FromSeconds(overhead), margin), nplc, serial, resilience, device, baseDirectory);
     }
 
     private static readonly string[] SerialKeys = ["baud", "parity", "dataBits", "stopBits", "flowControl"];

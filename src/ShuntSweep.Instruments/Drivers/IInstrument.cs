@@ -1,3 +1,5 @@
+using ShuntSweep.Instruments.Messaging;
+
 namespace ShuntSweep.Instruments.Drivers;
 
 /// <summary>The identity an instrument gives in answer to <c>*IDN?</c> (IEEE 488.2 §10.14: maker, model, serial, firmware).</summary>
@@ -15,6 +17,11 @@ public interface IInstrument
 
     /// <summary>Asks the instrument for its identity.</summary>
     Task<InstrumentIdentity> IdentifyAsync(CancellationToken cancellationToken = default);
+
+    /// <summary>Reads and empties the instrument's error queue (SCPI <c>SYSTem:ERRor?</c> until code 0), oldest first.</summary>
+    /// <remarks>An instrument without an error queue (an operator typing readings, a serial display stream) has nothing to report.</remarks>
+    Task<IReadOnlyList<InstrumentError>> ReadErrorsAsync(CancellationToken cancellationToken = default) =>
+        Task.FromResult<IReadOnlyList<InstrumentError>>([]);
 }
 
 /// <summary>A meter that is armed, measures, then is fetched, so that several meters can measure the same moment (SCPI INITiate/FETCh).</summary>

@@ -1,32 +1,90 @@
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 
 namespace ShuntSweep.Instruments.Drivers;
 
-/// <summary>What every SCPI role driver shares: the session, the profile, identity, the error queue and checked configuration.</summary>
-internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile profile) : IInstrument
+/// <summary>What every SCPI role driver shares: the session, the profile, identity, the error queue, checked and re-verifiable settings, and re-initialisation after a reconnect.</summary>
+/// <remarks>
+/// Every setting the driver applied is remembered; when the session had to reconnect (the instrument restarted or the link dropped),
+/// the settings are sent again before the next operation. Output and input states are not restored: an output that went off stays off.
+/// </remarks>
+internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile profile, InstrumentResilience? resilience) : IInstrument
 {
+    private readonly InstrumentResilience _resilience = resilience ?? InstrumentResilience.Direct(session.Resource);
+    private readonly List<(string Key, IReadOnlyList<string> Commands)> _configuration = [];
+    private int _generation = session.Generation;
+
     public string Resource => Session.Resource;
 
     public MessageSession Session { get; } = session;
 
     public InstrumentProfile Profile { get; } = profile;
 
-    public async Task<InstrumentIdentity> IdentifyAsync(CancellationToken cancellationToken = default)
+    public Task<InstrumentIdentity> IdentifyAsync(CancellationToken cancellationToken = default) =>
+        QueryAsync(async ct => Parse("*IDN?", await Session.QueryAsync(Profile.Query("common.identify"), null, ct), static a => ScpiResponse.ParseIdentity(a)), cancellationToken);
+
+    public Task<IReadOnlyList<InstrumentError>> ReadErrorsAsync(CancellationToken cancellationToken = default) =>
+        QueryAsync(async ct => await Session.DrainErrorsAsync(ct), cancellationToken);
+
+    /// <summary>Runs a query that is safe to repeat, with retries and reconnects.</summary>
+    protected Task<T> QueryAsync<T>(Func<CancellationToken, Task<T>> query, CancellationToken cancellationToken) =>
+        _resilience.RunAsync(
+            Repetition.Repeatable,
+            async (_, ct) =>
+            {
+                await RestoreAsync(ct);
+                return await query(ct);
+            },
+            cancellationToken);
+
+    /// <summary>Runs an operation that must not be repeated (arm, fetch).</summary>
+    protected Task<T> OnceAsync<T>(Func<CancellationToken, Task<T>> operation, CancellationToken cancellationToken) =>
+        _resilience.RunAsync(
+            Repetition.Once,
+            async (_, ct) =>
+            {
+                await RestoreAsync(ct);
+                return await operation(ct);
+            },
+            cancellationToken);
+
+    /// <summary>Applies a setting and checks the error queue; after a failure on the way it is re-verified by <paramref name="verify"/> and sent again only when it did not take.</summary>
+    /// <param name="key">What the setting is, so that a later value replaces it in the remembered configuration; null to not remember it (output states).</param>
+    /// <param name="commands">The commands of the setting.</param>
+    /// <param name="what">What is being done, for messages.</param>
+    /// <param name="verify">A query that says whether the setting is in force; null when there is none, in which case the setting is never repeated.</param>
+    /// <param name="safeOff">True for switching an output off, which must get through even when the circuit breaker is open.</param>
+    /// <param name="cancellationToken">Cancels the operation.</param>
+    protected async Task ApplyAsync(string? key, IReadOnlyList<string> commands, string what, Func<CancellationToken, Task<bool>>? verify, bool safeOff, CancellationToken cancellationToken)
     {
-        var answer = await Session.QueryAsync(Profile.Query("common.identify"), null, cancellationToken);
-        try
+        var repetition = safeOff ? Repetition.SafeOff : verify is null ? Repetition.Once : Repetition.Repeatable;
+        await _resilience.RunAsync(
+            repetition,
+            async (attempt, ct) =>
+            {
+                await RestoreAsync(ct);
+                if (attempt > 0 && verify is not null && await verify(ct))
+                {
+                    return true; // The setting arrived before the failure: sending it again is not needed.
+                }
+
+                await SendCheckedAsync(commands, what, ct);
+                if (attempt > 0 && verify is not null && !await verify(ct))
+                {
+                    throw new InstrumentProtocolException(Resource, $"{what}: the setting is not in force after sending it again.");
+                }
+
+                return true;
+            },
+            cancellationToken);
+
+        if (key is not null)
         {
-            return ScpiResponse.ParseIdentity(answer);
-        }
-        catch (FormatException ex)
-        {
-            throw new InstrumentProtocolException(Resource, ex.Message, ex);
+            _configuration.RemoveAll(c => c.Key == key);
+            _configuration.Add((key, commands));
         }
     }
-
-    public async Task<IReadOnlyList<InstrumentError>> ReadErrorsAsync(CancellationToken cancellationToken = default) =>
-        await Session.DrainErrorsAsync(cancellationToken);
 
     /// <summary>Sends <paramref name="commands"/>, then drains the error queue and throws when the instrument rejected any of them.</summary>
     protected async Task SendCheckedAsync(IEnumerable<string> commands, string what, CancellationToken cancellationToken)
@@ -45,35 +103,44 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
         }
     }
 
-    /// <summary>Sends <paramref name="commands"/> without reading the error queue (for the time-critical arm).</summary>
-    protected async Task SendAsync(IReadOnlyList<string> commands, CancellationToken cancellationToken)
-    {
-        foreach (var c in commands)
-        {
-            await Session.WriteAsync(c, cancellationToken);
-        }
-    }
-
     protected async Task<double> QueryNumberAsync(string operation, TimeSpan? timeout, CancellationToken cancellationToken)
     {
         var query = Profile.Query(operation);
-        var answer = await Session.QueryAsync(query, timeout, cancellationToken);
-        return Parse(query, answer, static a => ScpiResponse.ParseNumber(a));
+        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, timeout, ct), static a => ScpiResponse.ParseNumber(a)), cancellationToken);
     }
 
     protected async Task<bool> QueryBooleanAsync(string operation, CancellationToken cancellationToken)
     {
         var query = Profile.Query(operation);
-        var answer = await Session.QueryAsync(query, null, cancellationToken);
-        return Parse(query, answer, static a => ScpiResponse.ParseBoolean(a));
+        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseBoolean(a)), cancellationToken);
     }
 
     protected async Task<int> QueryIntegerAsync(string operation, CancellationToken cancellationToken)
     {
         var query = Profile.Query(operation);
-        var answer = await Session.QueryAsync(query, null, cancellationToken);
-        return Parse(query, answer, static a => ScpiResponse.ParseInteger(a));
+        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseInteger(a)), cancellationToken);
     }
+
+    /// <summary>A verifier that reads <paramref name="operation"/> back and compares it with <paramref name="expected"/> (to 0.01 %, as instruments round settings to their resolution).</summary>
+    protected Func<CancellationToken, Task<bool>>? VerifyNumber(string operation, double expected) =>
+        Profile.Supports(operation)
+            ? async ct =>
+            {
+                var query = Profile.Query(operation);
+                var actual = Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseNumber(a));
+                return Math.Abs(actual - expected) <= 1e-12 + (1e-4 * Math.Abs(expected));
+            }
+            : null;
+
+    /// <summary>A verifier that reads the boolean <paramref name="operation"/> back.</summary>
+    protected Func<CancellationToken, Task<bool>>? VerifyBoolean(string operation, bool expected) =>
+        Profile.Supports(operation)
+            ? async ct =>
+            {
+                var query = Profile.Query(operation);
+                return Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseBoolean(a)) == expected;
+            }
+            : null;
 
     protected T Parse<T>(string query, string answer, Func<string, T> parse)
     {
@@ -90,4 +157,22 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
     /// <summary>A finite reading; a supply or load reporting overload or NaN is a fault, not a value.</summary>
     protected double Finite(double value, string what) =>
         double.IsFinite(value) ? value : throw new InstrumentProtocolException(Resource, $"{what} answered {value} (SCPI overload or not-a-number).");
+
+    /// <summary>Re-sends the remembered configuration when the session reconnected since the last operation.</summary>
+    private async Task RestoreAsync(CancellationToken cancellationToken)
+    {
+        await Session.EnsureReadyAsync(cancellationToken);
+        if (Session.Generation == _generation)
+        {
+            return;
+        }
+
+        var generation = Session.Generation;
+        foreach (var (key, commands) in _configuration.ToList())
+        {
+            await SendCheckedAsync(commands, $"restoring '{key}' after reconnecting", cancellationToken);
+        }
+
+        _generation = generation;
+    }
 }

@@ -1,24 +1,46 @@
+using System.Globalization;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 
 namespace ShuntSweep.Instruments.Drivers;
 
 /// <summary>An electronic load in constant-current mode driven by the commands of its profile.</summary>
-internal sealed class ScpiLoad(MessageSession session, InstrumentProfile profile) : ScpiInstrument(session, profile), IElectronicLoad
+internal sealed class ScpiLoad(MessageSession session, InstrumentProfile profile, InstrumentResilience? resilience = null)
+    : ScpiInstrument(session, profile, resilience), IElectronicLoad
 {
     private readonly int _regulationLostMask = profile.Supports("load.regulationLostMask")
-        ? int.Parse(profile.Commands("load.regulationLostMask")[0], System.Globalization.CultureInfo.InvariantCulture)
+        ? int.Parse(profile.Commands("load.regulationLostMask")[0], NumberStyles.None, CultureInfo.InvariantCulture)
         : 0;
 
-    public Task SetConstantCurrentAsync(Current level, CancellationToken cancellationToken = default) =>
-        SendCheckedAsync(
-            [.. Profile.Commands("load.setMode"), .. Profile.Commands("load.setCurrent", level.Amperes)],
+    private bool _modeSet;
+
+    public async Task SetConstantCurrentAsync(Current level, CancellationToken cancellationToken = default)
+    {
+        if (!_modeSet && Profile.Supports("load.setMode"))
+        {
+            await ApplyAsync("mode", Profile.Commands("load.setMode"), "selecting constant-current mode", null, safeOff: false, cancellationToken);
+            _modeSet = true;
+        }
+
+        await ApplyAsync(
+            "current",
+            Profile.Commands("load.setCurrent", level.Amperes),
             $"setting constant current {level}",
+            VerifyNumber("load.queryCurrent", level.Amperes),
+            safeOff: false,
             cancellationToken);
+    }
 
     public Task SetInputAsync(bool enabled, CancellationToken cancellationToken = default) =>
-        SendCheckedAsync(Profile.Commands("load.setInput", enabled), enabled ? "turning the input on" : "turning the input off", cancellationToken);
+        ApplyAsync(
+            null,
+            Profile.Commands("load.setInput", enabled),
+            enabled ? "turning the input on" : "turning the input off",
+            VerifyBoolean("load.queryInput", enabled),
+            safeOff: !enabled,
+            cancellationToken);
 
     public Task<bool> IsInputOnAsync(CancellationToken cancellationToken = default) =>
         QueryBooleanAsync("load.queryInput", cancellationToken);

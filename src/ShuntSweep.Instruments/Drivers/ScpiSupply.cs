@@ -1,20 +1,41 @@
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 
 namespace ShuntSweep.Instruments.Drivers;
 
 /// <summary>A programmable supply driven by the commands of its profile.</summary>
-internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profile) : ScpiInstrument(session, profile), ISupply
+internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profile, InstrumentResilience? resilience = null)
+    : ScpiInstrument(session, profile, resilience), ISupply
 {
-    public Task ConfigureAsync(Voltage voltage, Current currentLimit, CancellationToken cancellationToken = default) =>
-        SendCheckedAsync(
-            [.. Profile.Commands("supply.setCurrentLimit", currentLimit.Amperes), .. Profile.Commands("supply.setVoltage", voltage.Volts)],
-            $"setting {voltage} with a {currentLimit} limit",
+    public async Task ConfigureAsync(Voltage voltage, Current currentLimit, CancellationToken cancellationToken = default)
+    {
+        // The limit first, so that the new voltage never drives the loop with the old, possibly higher, limit.
+        await ApplyAsync(
+            "current limit",
+            Profile.Commands("supply.setCurrentLimit", currentLimit.Amperes),
+            $"setting the current limit to {currentLimit}",
+            VerifyNumber("supply.queryCurrentLimit", currentLimit.Amperes),
+            safeOff: false,
             cancellationToken);
+        await ApplyAsync(
+            "voltage",
+            Profile.Commands("supply.setVoltage", voltage.Volts),
+            $"setting the voltage to {voltage}",
+            VerifyNumber("supply.queryVoltage", voltage.Volts),
+            safeOff: false,
+            cancellationToken);
+    }
 
     public Task SetOutputAsync(bool enabled, CancellationToken cancellationToken = default) =>
-        SendCheckedAsync(Profile.Commands("supply.setOutput", enabled), enabled ? "turning the output on" : "turning the output off", cancellationToken);
+        ApplyAsync(
+            null,
+            Profile.Commands("supply.setOutput", enabled),
+            enabled ? "turning the output on" : "turning the output off",
+            VerifyBoolean("supply.queryOutput", enabled),
+            safeOff: !enabled,
+            cancellationToken);
 
     public Task<bool> IsOutputOnAsync(CancellationToken cancellationToken = default) =>
         QueryBooleanAsync("supply.queryOutput", cancellationToken);

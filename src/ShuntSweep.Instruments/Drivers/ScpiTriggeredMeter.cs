@@ -1,11 +1,12 @@
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 
 namespace ShuntSweep.Instruments.Drivers;
 
 /// <summary>A meter measured by arm (INITiate) then fetch (FETCh?), whose fetch timeout follows its integration time.</summary>
-internal abstract class ScpiTriggeredMeter(MessageSession session, InstrumentProfile profile, string section, MeterTiming timing)
-    : ScpiInstrument(session, profile), ITriggeredMeter
+internal abstract class ScpiTriggeredMeter(MessageSession session, InstrumentProfile profile, string section, MeterTiming timing, InstrumentResilience? resilience)
+    : ScpiInstrument(session, profile, resilience), ITriggeredMeter
 {
     private double _nplc = 1;
     private int _samples = 1;
@@ -14,16 +15,34 @@ internal abstract class ScpiTriggeredMeter(MessageSession session, InstrumentPro
 
     public TimeSpan MeasurementTime => Timing.MeasurementTime(_nplc, _samples);
 
-    public Task ArmAsync(CancellationToken cancellationToken = default) => SendAsync(Profile.Commands($"{section}.arm"), cancellationToken);
+    /// <summary>Sends the arm command without reading the error queue, so that arming several meters takes one write each.</summary>
+    public Task ArmAsync(CancellationToken cancellationToken = default) =>
+        OnceAsync(
+            async ct =>
+            {
+                foreach (var c in Profile.Commands($"{section}.arm"))
+                {
+                    await Session.WriteAsync(c, ct);
+                }
 
-    public async Task<IReadOnlyList<double>> FetchAsync(CancellationToken cancellationToken = default)
+                return true;
+            },
+            cancellationToken);
+
+    /// <summary>Fetches the armed readings; the timeout is the session's plus margin × the measurement time, so long integrations do not time out.</summary>
+    public Task<IReadOnlyList<double>> FetchAsync(CancellationToken cancellationToken = default)
     {
         var query = Profile.Query($"{section}.fetch");
-        var answer = await Session.QueryAsync(query, Timing.FetchTimeout(Session.Options.Timeout, MeasurementTime), cancellationToken);
-        var values = Parse(query, answer, static a => ScpiResponse.ParseNumbers(a));
-        return values.Length == _samples
-            ? values
-            : throw new InstrumentProtocolException(Resource, $"'{query}' returned {values.Length} readings; {_samples} were configured.");
+        var timeout = Timing.FetchTimeout(Session.Options.Timeout, MeasurementTime);
+        return OnceAsync<IReadOnlyList<double>>(
+            async ct =>
+            {
+                var values = Parse(query, await Session.QueryAsync(query, timeout, ct), static a => ScpiResponse.ParseNumbers(a));
+                return values.Length == _samples
+                    ? values
+                    : throw new InstrumentProtocolException(Resource, $"'{query}' returned {values.Length} readings; {_samples} were configured.");
+            },
+            cancellationToken);
     }
 
     /// <summary>Records the integration the meter was just configured with, for <see cref="MeasurementTime"/>.</summary>

@@ -1,18 +1,31 @@
 using ShuntSweep.Core.Uut;
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 
 namespace ShuntSweep.Instruments.Drivers;
 
 /// <summary>A UUT with a SCPI remote interface: the range is selected by its full scale, readings are armed and fetched.</summary>
 internal sealed class ScpiUutMeter : ScpiTriggeredMeter, IUutMeter
 {
-    public ScpiUutMeter(MessageSession session, InstrumentProfile profile, MeterTiming timing, double nplc)
-        : base(session, profile, "uut", timing) => SetIntegration(nplc, 1);
+    public ScpiUutMeter(MessageSession session, InstrumentProfile profile, MeterTiming timing, double nplc, InstrumentResilience? resilience = null)
+        : base(session, profile, "uut", timing, resilience)
+    {
+        _nplc = nplc;
+        SetIntegration(nplc, 1);
+    }
+
+    private readonly double _nplc;
+
+    /// <summary>Sets the UUT's integration time from the bench file, where its profile can.</summary>
+    public Task ApplyNplcAsync(CancellationToken cancellationToken) =>
+        Profile.Supports("uut.setNplc")
+            ? ApplyAsync("nplc", Profile.Commands("uut.setNplc", _nplc), $"setting {_nplc} NPLC", null, safeOff: false, cancellationToken)
+            : Task.CompletedTask;
 
     public Task SelectRangeAsync(RangeSpec range, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(range);
-        return SendCheckedAsync(Profile.Commands("uut.selectRange", range.FullScale.Amperes), $"selecting the range {range.Name}", cancellationToken);
+        return ApplyAsync("range", Profile.Commands("uut.selectRange", range.FullScale.Amperes), $"selecting the range {range.Name}", null, safeOff: false, cancellationToken);
     }
 }

@@ -1,11 +1,12 @@
 using ShuntSweep.Instruments.Messaging;
 using ShuntSweep.Instruments.Profiles;
+using ShuntSweep.Instruments.Resilience;
 
 namespace ShuntSweep.Instruments.Drivers;
 
 /// <summary>A DC voltmeter driven by the commands of its profile.</summary>
-internal sealed class ScpiVoltmeter(MessageSession session, InstrumentProfile profile, MeterTiming timing)
-    : ScpiTriggeredMeter(session, profile, "voltmeter", timing), IVoltmeter
+internal sealed class ScpiVoltmeter(MessageSession session, InstrumentProfile profile, MeterTiming timing, InstrumentResilience? resilience = null)
+    : ScpiTriggeredMeter(session, profile, "voltmeter", timing, resilience), IVoltmeter
 {
     public async Task ConfigureAsync(VoltmeterSettings settings, CancellationToken cancellationToken = default)
     {
@@ -20,7 +21,7 @@ internal sealed class ScpiVoltmeter(MessageSession session, InstrumentProfile pr
 
         commands.AddRange(Profile.Commands("voltmeter.setSamples", settings.SamplesPerTrigger));
         commands.AddRange(Profile.Commands("voltmeter.setTrigger"));
-        await SendCheckedAsync(commands, $"configuring {settings}", cancellationToken);
+        await ApplyAsync("configuration", commands, $"configuring {settings}", null, safeOff: false, cancellationToken);
         SetIntegration(settings.Nplc, settings.SamplesPerTrigger);
     }
 }

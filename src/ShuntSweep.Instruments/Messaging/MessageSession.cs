@@ -68,6 +68,20 @@ public sealed class MessageSession : IAsyncDisposable
     /// <summary>How many times the connection was reopened; a driver that sees it change re-sends its configuration.</summary>
     public int Generation { get; private set; }
 
+    /// <summary>Makes sure the session is usable: reconnects when the connection was lost and discards late answers, so that <see cref="Generation"/> is current.</summary>
+    public async ValueTask EnsureReadyAsync(CancellationToken cancellationToken = default)
+    {
+        await _gate.WaitAsync(cancellationToken);
+        try
+        {
+            await PrepareAsync(cancellationToken);
+        }
+        finally
+        {
+            _gate.Release();
+        }
+    }
+
     /// <summary>Sends a command that has no answer.</summary>
     public async ValueTask WriteAsync(string command, CancellationToken cancellationToken = default)
     {

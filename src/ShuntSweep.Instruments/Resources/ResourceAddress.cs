@@ -49,10 +49,15 @@ public abstract record ResourceAddress
             return ParseUsb(t, parts);
         }
 
+        if (head.StartsWith("GPIB", StringComparison.OrdinalIgnoreCase) && parts.Length >= 3 && parts[^1].Equals("INSTR", StringComparison.OrdinalIgnoreCase))
+        {
+            return new VisaOnlyAddress { Text = t };
+        }
+
         throw new FormatException($"'{t}' is not a resource string ShuntSweep can open; expected TCPIP::host::port::SOCKET, ASRL…::INSTR, USB…::INSTR or SIM::name.");
     }
 
-    private static TcpSocketAddress ParseTcp(string t, string[] parts)
+    private static ResourceAddress ParseTcp(string t, string[] parts)
     {
         Board(parts[0], "TCPIP", t);
         if (parts.Length == 4 && parts[3].Equals("SOCKET", StringComparison.OrdinalIgnoreCase))
@@ -71,12 +76,13 @@ public abstract record ResourceAddress
             return new TcpSocketAddress { Text = t, Host = host.Trim('[', ']'), Port = port };
         }
 
-        if (parts.Length == 2 || (parts.Length == 3 && parts[2].Equals("INSTR", StringComparison.OrdinalIgnoreCase)))
+        if (parts.Length is 2 or 3 or 4 && parts[^1].Equals("INSTR", StringComparison.OrdinalIgnoreCase) && IsHost(parts[1]))
         {
-            throw new FormatException($"'{t}': VXI-11 and HiSLIP (TCPIP::host::INSTR) need a VISA library; use the instrument's raw socket port instead, for example TCPIP::{parts[1]}::5025::SOCKET.");
+            // VXI-11 (TCPIP::host[::lan device]::INSTR) and HiSLIP (TCPIP::host::hislip0::INSTR) are left to a VISA library.
+            return new VisaOnlyAddress { Text = t };
         }
 
-        throw new FormatException($"'{t}': expected TCPIP[board]::host::port::SOCKET.");
+        throw new FormatException($"'{t}': expected TCPIP[board]::host::port::SOCKET (or TCPIP::host[::device]::INSTR through a VISA library).");
     }
 
     private static SerialAddress ParseSerial(string t, string[] parts)
@@ -187,6 +193,9 @@ public sealed record UsbTmcAddress : ResourceAddress
     /// <summary>The USB interface number, when given.</summary>
     public int? Interface { get; init; }
 }
+
+/// <summary>A VISA resource ShuntSweep cannot open by itself (GPIB, VXI-11, HiSLIP); it needs a VISA library behind <see cref="Transports.IVisaLibrary"/>.</summary>
+public sealed record VisaOnlyAddress : ResourceAddress;
 
 /// <summary>An in-process simulated instrument, <c>SIM::name</c>.</summary>
 public sealed record SimulatedAddress : ResourceAddress

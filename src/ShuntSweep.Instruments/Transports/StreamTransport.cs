@@ -5,7 +5,7 @@ namespace ShuntSweep.Instruments.Transports;
 /// Streams do not all honour cancellation of a read, so a read is started once and kept: when the caller gives up (timeout), the
 /// read stays pending and its bytes are handed to the next <see cref="ReadAsync"/>; nothing is lost and nothing is read twice.
 /// </remarks>
-internal sealed class StreamTransport(string resource, Stream stream) : ITransport
+internal sealed class StreamTransport(string resource, Stream stream, IDisposable? owner = null) : ITransport
 {
     private readonly byte[] _chunk = new byte[4096];
     private Task<int>? _pending;
@@ -44,6 +44,7 @@ internal sealed class StreamTransport(string resource, Stream stream) : ITranspo
     public async ValueTask DisposeAsync()
     {
         await stream.DisposeAsync();
+        owner?.Dispose();
         if (_pending is { } p)
         {
             // The stream is closed; the abandoned read ends with an error or 0 bytes, which nobody needs.

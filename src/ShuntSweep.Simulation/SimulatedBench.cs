@@ -1,0 +1,157 @@
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Core.Timing;
+using ShuntSweep.Simulation.Faults;
+using ShuntSweep.Simulation.Hosting;
+using ShuntSweep.Simulation.Instruments;
+using ShuntSweep.Simulation.Physics;
+
+namespace ShuntSweep.Simulation;
+
+/// <summary>A physics-faithful simulated bench: supply, CC load, voltmeter, UUT and reference coupled through one circuit, each speaking SCPI
+/// over its own duplex stream (in process) or TCP port (<see cref="TcpBenchHost"/>).</summary>
+/// <remarks>Deterministic: the same bench file, seed and command sequence give the same answers byte for byte. Thread-safe.</remarks>
+public sealed class SimulatedBench : IAsyncDisposable
+{
+    private readonly Dictionary<string, SimulatedInstrument> _instruments;
+    private readonly BenchCircuit _circuit;
+    private readonly CancellationTokenSource _stop = new();
+    private readonly List<Task> _sessions = [];
+    private readonly Lock _gate = new();
+
+    private SimulatedBench(BenchDescription description, BenchCircuit circuit, Dictionary<string, SimulatedInstrument> instruments)
+    {
+        Description = description;
+        _circuit = circuit;
+        _instruments = instruments;
+    }
+
+    /// <summary>The bench the simulation was built from.</summary>
+    public BenchDescription Description { get; }
+
+    /// <summary>The simulated instruments' names, in port order (a subset of supply, load, dmm, uut, ref).</summary>
+    public IReadOnlyList<string> Instruments => SimulationReader.Served.Where(_instruments.ContainsKey).ToList();
+
+    /// <summary>Builds the simulation of <paramref name="bench"/> on <paramref name="clock"/>, drawing per-unit errors and noise from <paramref name="seed"/>.</summary>
+    /// <exception cref="Core.Documents.DocumentException">The simulation section is not valid.</exception>
+    public static SimulatedBench Create(BenchDescription bench, IBenchClock clock, int seed)
+    {
+        ArgumentNullException.ThrowIfNull(bench);
+        ArgumentNullException.ThrowIfNull(clock);
+        var settings = SimulationReader.Read(bench, seed);
+        var circuit = new BenchCircuit(settings.Uut, bench.Wiring.Ohms, settings.Dmm, settings.Reference, settings.Supply, settings.Load, clock.Now);
+        circuit.SupplyLimit = Math.Min(0.1, settings.Supply.MaxCurrent);
+        foreach (var fault in settings.Faults)
+        {
+            fault.Attach(circuit);
+        }
+
+        var instruments = new Dictionary<string, SimulatedInstrument>(StringComparer.Ordinal);
+        foreach (var name in SimulationReader.Served)
+        {
+            if (!bench.Instruments.Values.Any(i => string.Equals(i.Resource, "SIM::" + name, StringComparison.OrdinalIgnoreCase)))
+            {
+                continue;
+            }
+
+            var random = SeededRandom.For(seed, "noise:" + name);
+            var scpi = name switch
+            {
+                "supply" => SupplyInstrument.Create(circuit, clock, random),
+                "load" => LoadInstrument.Create(circuit, clock, random),
+                "dmm" => VoltmeterInstrument.Create(circuit, clock, random),
+                "uut" => UutInstrument.Create(circuit, clock, random),
+                _ => ReferenceInstrument.Create(circuit, clock, random),
+            };
+            var faults = settings.Faults.Where(f => f.Instrument == name).ToList();
+            var faultRandom = SeededRandom.For(seed, "faults:" + name);
+            instruments[name] = new SimulatedInstrument(name, scpi, faults, n => new FaultContext(name, scpi, circuit, clock, faultRandom) { Commands = n });
+        }
+
+        return new SimulatedBench(bench, circuit, instruments);
+    }
+
+    /// <summary>Opens an in-memory connection to the instrument <paramref name="name"/> (<c>supply</c> or <c>SIM::supply</c>, and so on).</summary>
+    /// <returns>The client end: write LF-terminated SCPI, read LF-terminated responses; dispose it to hang up.</returns>
+    public Stream Connect(string name)
+    {
+        var (client, server) = DuplexPipeStream.CreatePair();
+        Serve(name, server);
+        return client;
+    }
+
+    /// <summary>Serves the instrument <paramref name="name"/> on <paramref name="stream"/> (a TCP connection, say) until either side closes it.</summary>
+    public Task ServeAsync(string name, Stream stream, CancellationToken cancellationToken)
+    {
+        var instrument = Find(name);
+        var linked = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken, _stop.Token);
+        return new ScpiSession(instrument).RunAsync(stream, linked.Token).ContinueWith(_ => linked.Dispose(), TaskScheduler.Default);
+    }
+
+    /// <summary>The cold series resistance of <paramref name="range"/> between the jacks: front end, fuse and contacts (ground truth for tests).</summary>
+    public Resistance ExpectedSeriesResistance(string range)
+    {
+        var r = _circuit.Uut.Range(range);
+        return new Resistance(r.FrontEnd.ColdResistance + r.Jack.Fuse.Element.ColdResistance + r.Jack.Contacts);
+    }
+
+    /// <summary>The cold resistance of the fuse of <paramref name="jack"/> (ground truth for tests).</summary>
+    public Resistance FuseColdResistance(string jack) => new(_circuit.Uut.Jack(jack).Fuse.Element.ColdResistance);
+
+    /// <summary>True when the fuse of <paramref name="jack"/> has opened.</summary>
+    public bool IsFuseOpen(string jack) => _circuit.At(c => c.Uut.Jack(jack).Fuse.IsOpen);
+
+    /// <summary>The temperature of the fuse element of <paramref name="jack"/>, in °C, at the clock's present.</summary>
+    public double FuseTemperature(string jack) => _circuit.At(c => c.Uut.Jack(jack).Fuse.Celsius);
+
+    /// <summary>Moves the simulated lead to <paramref name="range"/> (what the operator does; <c>SIM::uut CONF:CURR</c> does the same remotely).</summary>
+    public void SelectRange(string range)
+    {
+        var r = _circuit.Uut.Range(range);
+        _circuit.Change(c => c.Uut.Selected = r);
+    }
+
+    /// <summary>The true voltage across the UUT's jacks and current through them at the clock's present.</summary>
+    public (Voltage Drop, Current Current) Truth()
+    {
+        var op = _circuit.Present();
+        return (new Voltage(op.JackVoltage), new Current(op.UutCurrent));
+    }
+
+    /// <inheritdoc />
+    public async ValueTask DisposeAsync()
+    {
+        await _stop.CancelAsync();
+        Task[] sessions;
+        lock (_gate)
+        {
+            sessions = [.. _sessions];
+        }
+
+        await Task.WhenAll(sessions);
+        foreach (var i in _instruments.Values)
+        {
+            i.Scpi.Dispose();
+        }
+
+        _stop.Dispose();
+    }
+
+    private void Serve(string name, Stream server)
+    {
+        var task = ServeAsync(name, server, CancellationToken.None);
+        lock (_gate)
+        {
+            _sessions.RemoveAll(t => t.IsCompleted);
+            _sessions.Add(task);
+        }
+    }
+
+    private SimulatedInstrument Find(string name)
+    {
+        var key = name.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase) ? name[5..] : name;
+        return _instruments.TryGetValue(key.ToLowerInvariant(), out var i)
+            ? i
+            : throw new KeyNotFoundException($"The simulated bench has no instrument '{name}'; it has {string.Join(", ", Instruments)}.");
+    }
+}

@@ -1,0 +1,99 @@
+using ShuntSweep.Analysis.Models;
+using ShuntSweep.Analysis.Results;
+
+namespace ShuntSweep.Analysis.Insertion;
+
+/// <summary>A range's fitted drop against current, rebuilt from <c>result.json</c>: evaluate it, and its standard uncertainty, at any current.</summary>
+public sealed class DropCurve
+{
+    private readonly IDropModel _model;
+    private readonly double[] _p;
+    private readonly double[,] _cov;
+
+    private DropCurve(RangeResult range, IDropModel model, double[] p, double[,] cov)
+    {
+        Range = range;
+        _model = model;
+        _p = p;
+        _cov = cov;
+    }
+
+    /// <summary>The range the curve belongs to.</summary>
+    public RangeResult Range { get; }
+
+    /// <summary>The curve of range <paramref name="rangeName"/> in <paramref name="result"/>.</summary>
+    /// <exception cref="KeyNotFoundException">When the result has no such range.</exception>
+    /// <exception cref="InvalidDataException">When the range's model or parameters cannot be rebuilt.</exception>
+    public static DropCurve For(CharacterisationResult result, string rangeName)
+    {
+        ArgumentNullException.ThrowIfNull(result);
+        return For(result.Range(rangeName), result.DiodeTemperatureK);
+    }
+
+    /// <summary>The curve of <paramref name="range"/>; a range without a parameter list (an early result file) is taken as ohmic.</summary>
+    public static DropCurve For(RangeResult range, double diodeTemperatureK)
+    {
+        ArgumentNullException.ThrowIfNull(range);
+        if (range.Parameters is null || range.Parameters.Count == 0)
+        {
+            var ohmic = new OhmicModel();
+            var cov = new double[2, 2];
+            cov[0, 0] = range.OffsetVolts.StandardUncertainty * range.OffsetVolts.StandardUncertainty;
+            cov[1, 1] = range.ResistanceOhms.StandardUncertainty * range.ResistanceOhms.StandardUncertainty;
+            return new DropCurve(range, ohmic, [range.OffsetVolts.Value, range.ResistanceOhms.Value], cov);
+        }
+
+        var model = DropModels.Create(range.Model, diodeTemperatureK);
+        if (model.ParameterCount != range.Parameters.Count)
+        {
+            throw new InvalidDataException($"Range '{range.Name}': model '{range.Model}' has {model.ParameterCount} parameters but the result lists {range.Parameters.Count}.");
+        }
+
+        var p = range.Parameters.Select(x => x.Value).ToArray();
+        if (p.Any(v => !double.IsFinite(v)))
+        {
+            throw new InvalidDataException($"Range '{range.Name}': a model parameter is missing (null) in the result.");
+        }
+
+        var m = p.Length;
+        var c = new double[m, m];
+        for (var i = 0; i < m; i++)
+        {
+            for (var j = 0; j < m; j++)
+            {
+                var r = range.Correlation is { } corr && corr.Count == m && corr[i].Count == m ? corr[i][j] : (i == j ? 1 : 0);
+                c[i, j] = r * range.Parameters[i].StandardUncertainty * range.Parameters[j].StandardUncertainty;
+            }
+        }
+
+        return new DropCurve(range, model, p, c);
+    }
+
+    /// <summary>The drop in volts at <paramref name="currentA"/>.</summary>
+    public double Drop(double currentA) => _model.Evaluate(currentA, _p, []);
+
+    /// <summary>The slope dV/dI in ohms at <paramref name="currentA"/>.</summary>
+    public double Slope(double currentA)
+    {
+        var h = Math.Max(Math.Abs(currentA) * 1e-6, 1e-12);
+        return (Drop(currentA + h) - Drop(currentA - h)) / (2 * h);
+    }
+
+    /// <summary>The standard uncertainty of the drop at <paramref name="currentA"/>, from the parameter covariance.</summary>
+    public double DropUncertainty(double currentA)
+    {
+        var m = _p.Length;
+        Span<double> g = stackalloc double[m];
+        _model.Evaluate(currentA, _p, g);
+        var v = 0.0;
+        for (var i = 0; i < m; i++)
+        {
+            for (var j = 0; j < m; j++)
+            {
+                v += g[i] * _cov[i, j] * g[j];
+            }
+        }
+
+        return Math.Sqrt(Math.Max(v, 0));
+    }
+}

@@ -1,0 +1,61 @@
+using System.CommandLine;
+using System.Text.Json;
+using ShuntSweep.Analysis;
+using ShuntSweep.Analysis.Insertion;
+using ShuntSweep.Cli.Composition;
+using ShuntSweep.Core.Quantities;
+using Spectre.Console;
+
+namespace ShuntSweep.Cli.Commands;
+
+/// <summary><c>shuntsweep correct</c>: correct a reading taken in a known circuit back to the current that flows without the UUT.</summary>
+internal static class CorrectCommand
+{
+    public static Command Create()
+    {
+        var resultOpt = new Option<string>("--result") { Description = "The result.json of a characterisation.", Required = true };
+        var rangeOpt = new Option<string>("--range") { Description = "The range the reading was taken on.", Required = true };
+        var readingOpt = new Option<string>("--reading") { Description = "The UUT's reading, e.g. 0.0098 or '9.8 mA'.", Required = true };
+        var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance seen by the UUT, e.g. 100 or '100 ohm'.", Required = true };
+        var jsonOpt = new Option<bool>("--json") { Description = "Write the correction as JSON instead of a table." };
+        var command = new Command("correct", "Correct a reading taken in a circuit of known source resistance for the UUT's burden.")
+        {
+            resultOpt, rangeOpt, readingOpt, ohmsOpt, jsonOpt,
+        };
+        command.SetAction((parse, _) => Terminal.GuardAsync(() =>
+        {
+            try
+            {
+                var result = PredictCommand.LoadResult(parse.GetValue(resultOpt)!);
+                var reading = PredictCommand.ParseQuantity("--reading", parse.GetValue(readingOpt)!, SiUnit.Ampere);
+                var ohms = PredictCommand.ParseQuantity("--source-ohms", parse.GetValue(ohmsOpt)!, SiUnit.Ohm);
+                var c = InsertionError.Correct(result, parse.GetValue(rangeOpt)!, reading, ohms);
+                if (parse.GetValue(jsonOpt))
+                {
+                    Console.Out.WriteLine(JsonSerializer.Serialize(c, ResultJson.Options));
+                    return Task.FromResult(ExitCodes.Success);
+                }
+
+                var table = new Table().Title($"Reading corrected for the burden of range {Markup.Escape(c.Range)}").AddColumns("quantity", "value");
+                table.AddRow("reading", QuantityFormatter.Format(c.ReadingA, SiUnit.Ampere, 6));
+                table.AddRow("burden at the reading", QuantityFormatter.Format(c.DropVolts, SiUnit.Volt, 4));
+                table.AddRow("correction V_b/R", QuantityFormatter.Format(c.CorrectionA, SiUnit.Ampere, 4));
+                table.AddRow(
+                    "undisturbed current (U, k = 2)",
+                    $"{QuantityFormatter.Format(c.UndisturbedCurrentA.Value, SiUnit.Ampere, 6)} ± {QuantityFormatter.Format(2 * c.UndisturbedCurrentA.StandardUncertainty, SiUnit.Ampere, 2)}");
+                AnsiConsole.Write(table);
+                if (c.Extrapolated)
+                {
+                    AnsiConsole.MarkupLine("[yellow]note:[/] the reading is beyond the currents the range was characterised at; the correction is an extrapolation.");
+                }
+
+                return Task.FromResult(ExitCodes.Success);
+            }
+            catch (Exception e) when (e is ArgumentException or InvalidDataException or KeyNotFoundException)
+            {
+                return Task.FromResult(Terminal.Fail(e.Message, ExitCodes.InvalidInput));
+            }
+        }));
+        return command;
+    }
+}

@@ -1,0 +1,135 @@
+using System.CommandLine;
+using System.Text.Json;
+using ShuntSweep.Analysis;
+using ShuntSweep.Analysis.Insertion;
+using ShuntSweep.Analysis.Results;
+using ShuntSweep.Cli.Composition;
+using ShuntSweep.Core.Quantities;
+using Spectre.Console;
+
+namespace ShuntSweep.Cli.Commands;
+
+/// <summary><c>shuntsweep predict</c>: the insertion error of the characterised UUT in a user's circuit, per range, and the range to use.</summary>
+internal static class PredictCommand
+{
+    public static Command Create()
+    {
+        var resultOpt = new Option<string>("--result") { Description = "The result.json of a characterisation.", Required = true };
+        var voltsOpt = new Option<string>("--source-volts") { Description = "The circuit's Thevenin (or rail) voltage, e.g. 5 or '5 V'.", Required = true };
+        var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance (on a rail: the circuit's own V/I), e.g. 100 or '4.7 kohm'.", Required = true };
+        var rangeOpt = new Option<string?>("--range") { Description = "Examine only this range (default: every range)." };
+        var minOpt = new Option<string?>("--min-volts") { Description = "The circuit's minimum operating voltage; ranges that leave less are flagged." };
+        var jsonOpt = new Option<bool>("--json") { Description = "Write the prediction as JSON instead of a table." };
+        var command = new Command("predict", "Predict the current, reading, error and voltage left with the UUT inserted in a circuit, per range; recommend a range.")
+        {
+            resultOpt, voltsOpt, ohmsOpt, rangeOpt, minOpt, jsonOpt,
+        };
+        command.SetAction((parse, _) => Terminal.GuardAsync(() => Task.FromResult(Run(parse, resultOpt, voltsOpt, ohmsOpt, rangeOpt, minOpt, jsonOpt))));
+        return command;
+    }
+
+    /// <summary>Parses a quantity option: a bare number is taken in the SI unit; a unit, when given, must be <paramref name="unit"/>.</summary>
+    internal static double ParseQuantity(string option, string text, SiUnit unit)
+    {
+        if (!QuantityParser.TryParse(text, out var value, out var found, out var error))
+        {
+            throw new FormatException($"{option}: {error}");
+        }
+
+        if (found != SiUnit.None && found != unit)
+        {
+            throw new FormatException($"{option}: '{text}' is not in {unit}.");
+        }
+
+        return value;
+    }
+
+    /// <summary>Reads a result file, turning a malformed or unreadable file into a clear error.</summary>
+    internal static CharacterisationResult LoadResult(string path) => ResultJson.Read(path);
+
+    private static int Run(
+        ParseResult parse,
+        Option<string> resultOpt,
+        Option<string> voltsOpt,
+        Option<string> ohmsOpt,
+        Option<string?> rangeOpt,
+        Option<string?> minOpt,
+        Option<bool> jsonOpt)
+    {
+        try
+        {
+            var result = LoadResult(parse.GetValue(resultOpt)!);
+            var volts = ParseQuantity("--source-volts", parse.GetValue(voltsOpt)!, SiUnit.Volt);
+            var ohms = ParseQuantity("--source-ohms", parse.GetValue(ohmsOpt)!, SiUnit.Ohm);
+            var minText = parse.GetValue(minOpt);
+            double? min = minText is null ? null : ParseQuantity("--min-volts", minText, SiUnit.Volt);
+            var report = InsertionError.Predict(result, volts, ohms, parse.GetValue(rangeOpt), min);
+            if (parse.GetValue(jsonOpt))
+            {
+                Console.Out.WriteLine(JsonSerializer.Serialize(report, ResultJson.Options));
+            }
+            else
+            {
+                Show(report);
+            }
+
+            // A circuit that no range can measure without starving it is a failed check, so scripts can gate on it.
+            return report.Recommended is null && min is not null && report.Ranges.All(r => r.BelowMinimum || r.Overload) ? ExitCodes.CheckFailed : ExitCodes.Success;
+        }
+        catch (Exception e) when (e is ArgumentException or InvalidDataException or KeyNotFoundException)
+        {
+            return Terminal.Fail(e.Message, ExitCodes.InvalidInput);
+        }
+    }
+
+    private static void Show(InsertionReport report)
+    {
+        var circuit = $"Circuit: {new Voltage(report.SourceVolts)} through {new Resistance(report.SourceOhms)}; undisturbed current {new Current(report.UndisturbedCurrentA)}";
+        if (report.MinimumVolts is { } m)
+        {
+            circuit += $"; circuit needs at least {new Voltage(m)}";
+        }
+
+        AnsiConsole.WriteLine(circuit);
+        var table = new Table().Title("Insertion error per range")
+            .AddColumns("range", "current", "reading", "error", "error %", "burden", "volts left", "notes");
+        foreach (var p in report.Ranges)
+        {
+            var notes = new List<string>();
+            if (p.BelowMinimum)
+            {
+                notes.Add("[red]rail below minimum[/]");
+            }
+
+            if (p.Overload)
+            {
+                notes.Add("[red]overload[/]");
+            }
+
+            if (p.Extrapolated)
+            {
+                notes.Add("[yellow]beyond fitted currents[/]");
+            }
+
+            table.AddRow(
+                Markup.Escape(p.Range),
+                $"{QuantityFormatter.Format(p.CurrentA.Value, SiUnit.Ampere, 5)} ± {QuantityFormatter.Format(2 * p.CurrentA.StandardUncertainty, SiUnit.Ampere, 2)}",
+                double.IsFinite(p.ReadingA) ? QuantityFormatter.Format(p.ReadingA, SiUnit.Ampere, 5) : "OL",
+                QuantityFormatter.Format(p.ErrorA, SiUnit.Ampere, 3),
+                double.IsFinite(p.RelativeError) ? $"{p.RelativeError * 100:0.###} %" : "-",
+                QuantityFormatter.Format(p.DropVolts, SiUnit.Volt, 4),
+                QuantityFormatter.Format(p.VoltsLeft, SiUnit.Volt, 4),
+                string.Join(", ", notes));
+        }
+
+        AnsiConsole.Write(table);
+        if (report.Recommended is { } r)
+        {
+            AnsiConsole.MarkupLineInterpolated($"Recommended range: [green]{r}[/] ({report.Reason}); uncertainties are k = 2 from the fitted curve.");
+        }
+        else
+        {
+            AnsiConsole.MarkupLineInterpolated($"[red]No range recommended:[/] {report.Reason}.");
+        }
+    }
+}

@@ -94,6 +94,7 @@ public sealed class Runner
         catch (Exception ex) when (ex is not OutOfMemoryException)
         {
             outcome = new RunOutcome(RunEnd.InstrumentFailure, $"Instrument failure: {ex.Message}", done, false);
+            _journal.Event("failure", new Dictionary<string, object?> { ["type"] = ex.GetType().FullName, ["detail"] = ex.ToString() });
         }
 
         var confirmed = await SafeOffAsync();
@@ -341,6 +342,16 @@ public sealed class Runner
         var index = 1;
         var uutValue = uut is null ? double.NaN : values[index++][0];
         var referenceValue = reference is null ? double.NaN : values[index][0];
+        if (double.IsNaN(drop) || (reference is not null && double.IsNaN(referenceValue)))
+        {
+            throw new InvalidDataException($"The {(double.IsNaN(drop) ? "drop voltmeter" : "reference ammeter")} answered not-a-number (SCPI 9.91E37) at {at:O}; its reading cannot be used.");
+        }
+
+        if (double.IsInfinity(drop))
+        {
+            throw new SafetyAbortException("The drop voltmeter shows overload: the voltage across the UUT's jacks is above its range (an open fuse leaves the full supply voltage there).");
+        }
+
         return new Reading(at, drop, uutValue, referenceValue);
     }
 

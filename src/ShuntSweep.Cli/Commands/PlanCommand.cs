@@ -1,0 +1,68 @@
+using System.CommandLine;
+using ShuntSweep.Cli.Composition;
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Engine.Planning;
+using ShuntSweep.Engine.Sequences;
+using Spectre.Console;
+
+namespace ShuntSweep.Cli.Commands;
+
+/// <summary><c>shuntsweep plan</c>: expand and check a sequence on a bench without touching any output.</summary>
+internal static class PlanCommand
+{
+    public static Command Create()
+    {
+        var sequenceArg = new Argument<string>("sequence") { Description = "The sequence file to plan." };
+        var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: {BenchHost.DefaultBench})." };
+        var command = new Command("plan", "Expand a sequence into steps, check it against the UUT and the bench, estimate its duration.") { sequenceArg, benchOpt };
+        command.SetAction((parse, _) => Terminal.GuardAsync(() =>
+        {
+            var sequence = SequenceReader.Load(parse.GetValue(sequenceArg)!);
+            var bench = BenchReader.Load(BenchHost.Locate(parse.GetValue(benchOpt)));
+            var plan = Planner.Plan(sequence, bench);
+            return Task.FromResult(Show(sequence, bench, plan, brief: false) ? ExitCodes.Success : ExitCodes.UnsafePlan);
+        }));
+        return command;
+    }
+
+    /// <summary>Prints the plan (per range, or only its totals when <paramref name="brief"/>) and any violation; returns whether it may run.</summary>
+    public static bool Show(Sequence sequence, BenchDescription bench, RunPlan plan, bool brief)
+    {
+        AnsiConsole.MarkupLineInterpolated($"[bold]{sequence.Title}[/] on {bench.Name} — UUT {bench.Uut.Manufacturer} {bench.Uut.Model} s/n {bench.Uut.Serial}");
+        if (!brief)
+        {
+            var table = new Table().AddColumns("range", "jack", "points", "from", "to", "samples/point", "holds");
+            foreach (var group in plan.Steps.OfType<CurrentStep>().GroupBy(s => s.Range))
+            {
+                var points = group.OfType<MeasureStep>().ToList();
+                table.AddRow(
+                    group.Key,
+                    group.First().Jack,
+                    points.Count.ToString(System.Globalization.CultureInfo.InvariantCulture),
+                    points.Count > 0 ? points.Min(p => p.Setpoint).ToString() : "-",
+                    points.Count > 0 ? points.Max(p => p.Setpoint).ToString() : "-",
+                    points.Count > 0 ? points[0].Settings.Samples.ToString(System.Globalization.CultureInfo.InvariantCulture) : "-",
+                    group.OfType<HoldStep>().Count().ToString(System.Globalization.CultureInfo.InvariantCulture));
+            }
+
+            AnsiConsole.Write(table);
+            foreach (var prompt in plan.Steps.OfType<PromptStep>())
+            {
+                AnsiConsole.MarkupLineInterpolated($"  step {prompt.Index}: operator — {prompt.Text}");
+            }
+        }
+
+        AnsiConsole.MarkupLineInterpolated($"{plan.Steps.Count} steps, {plan.SampleCount} samples, estimated {plan.EstimatedDuration.TotalSeconds:0.#} s on the bench.");
+        foreach (var v in plan.Violations)
+        {
+            AnsiConsole.MarkupLineInterpolated($"[red]unsafe:[/] {sequence.File}:{v.Line}: step {v.Step}: {v.Message}");
+        }
+
+        if (!plan.IsSafe)
+        {
+            AnsiConsole.MarkupLineInterpolated($"[red]The plan is refused ({plan.Violations.Count} problem(s)); no output was touched.[/]");
+        }
+
+        return plan.IsSafe;
+    }
+}

@@ -1,0 +1,200 @@
+using System.CommandLine;
+using System.Globalization;
+using Serilog;
+using Serilog.Formatting.Compact;
+using ShuntSweep.Analysis;
+using ShuntSweep.Cli.Composition;
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Records;
+using ShuntSweep.Core.Timing;
+using ShuntSweep.Engine.Journal;
+using ShuntSweep.Engine.Planning;
+using ShuntSweep.Engine.Running;
+using ShuntSweep.Engine.Sequences;
+using Spectre.Console;
+
+namespace ShuntSweep.Cli.Commands;
+
+/// <summary><c>shuntsweep run</c>: plan, run on the bench, journal, analyse and report.</summary>
+internal static class RunCommand
+{
+    public static Command Create()
+    {
+        var sequenceArg = new Argument<string?>("sequence") { Description = "The sequence file to run (not needed with --resume).", Arity = ArgumentArity.ZeroOrOne };
+        var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the bundled simulated bench {BenchHost.DefaultBench})." };
+        var outOpt = new Option<string?>("--out") { Description = "The run directory (default: runs/<UTC timestamp>)." };
+        var seedOpt = new Option<int>("--seed") { Description = "The seed of the simulated bench.", DefaultValueFactory = _ => 1 };
+        var answersOpt = new Option<string?>("--answers") { Description = "Answers to operator prompts for unattended runs (prompt id: done|abort, otherwise: done|abort)." };
+        var resumeOpt = new Option<string?>("--resume") { Description = "Continue the interrupted run in this directory after its last completed step." };
+        var command = new Command("run", "Run a sequence on a bench, journal every sample, then fit and report.")
+        {
+            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt,
+        };
+        command.SetAction((parse, ct) => Terminal.GuardAsync(() => ExecuteAsync(
+            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), ct)));
+        return command;
+    }
+
+    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, CancellationToken ct)
+    {
+        RunManifest? previous = null;
+        if (resume is not null)
+        {
+            if (!File.Exists(Path.Combine(resume, RunManifest.FileName)))
+            {
+                return Terminal.Fail($"{resume} holds no run to resume (no {RunManifest.FileName}).", ExitCodes.InvalidInput);
+            }
+
+            previous = RunManifest.Read(resume);
+            sequencePath ??= previous.SequenceFile;
+            benchPath ??= previous.BenchFile;
+            seed = previous.Seed;
+            outDir = resume;
+            if (RunManifest.HashFile(sequencePath) != previous.SequenceSha256 || RunManifest.HashFile(BenchHost.Locate(benchPath)) != previous.BenchSha256)
+            {
+                return Terminal.Fail($"The sequence or bench file changed since the run in {resume} started; resume refused (start a new run instead).", ExitCodes.InvalidInput);
+            }
+        }
+
+        if (sequencePath is null)
+        {
+            return Terminal.Fail("Give a sequence file, or --resume DIR.", ExitCodes.InvalidInput);
+        }
+
+        var sequence = SequenceReader.Load(sequencePath);
+        var benchFile = BenchHost.Locate(benchPath);
+        var bench = BenchReader.Load(benchFile);
+        var plan = Planner.Plan(sequence, bench);
+        if (!PlanCommand.Show(sequence, bench, plan, brief: true))
+        {
+            return ExitCodes.UnsafePlan;
+        }
+
+        if (!bench.IsSimulated)
+        {
+            foreach (var note in Terminal.SafetyNotes)
+            {
+                AnsiConsole.MarkupLineInterpolated($"[yellow]caution:[/] {note}");
+            }
+        }
+
+        var clock = BenchHost.ClockFor(bench);
+        var start = previous?.Start ?? clock.Now();
+        outDir ??= Path.Combine("runs", TimeProvider.System.GetUtcNow().ToString("yyyyMMdd'T'HHmmss'Z'", CultureInfo.InvariantCulture));
+        if (resume is null && File.Exists(Path.Combine(outDir, RunJournal.JournalFile)))
+        {
+            return Terminal.Fail($"{outDir} already holds a run; choose another --out or --resume it.", ExitCodes.InvalidInput);
+        }
+
+        Directory.CreateDirectory(outDir);
+        using var traffic = new LoggerConfiguration().WriteTo.File(new CompactJsonFormatter(), Path.Combine(outDir, "traffic.jsonl")).CreateLogger();
+        IOperator op = answers is not null ? AnswerFileOperator.Load(answers) : bench.IsSimulated ? new SimulatedOperator() : new ConsoleOperator();
+
+        var wall = System.Diagnostics.Stopwatch.StartNew();
+        await using var instruments = await BenchHost.ConnectAsync(bench, clock, seed, traffic, ct);
+        var identities = new Dictionary<string, string>
+        {
+            [BenchReader.KeyOf(InstrumentRole.Supply)] = (await instruments.Supply.IdentifyAsync(ct)).ToString(),
+            [BenchReader.KeyOf(InstrumentRole.Load)] = (await instruments.Load.IdentifyAsync(ct)).ToString(),
+            [BenchReader.KeyOf(InstrumentRole.DropMeter)] = (await instruments.DropMeter.IdentifyAsync(ct)).ToString(),
+        };
+        if (instruments.UutMeter is { } uutMeter)
+        {
+            identities[BenchReader.KeyOf(InstrumentRole.UutMeter)] = (await uutMeter.IdentifyAsync(ct)).ToString();
+        }
+
+        if (instruments.Reference is { } reference)
+        {
+            identities[BenchReader.KeyOf(InstrumentRole.Reference)] = (await reference.IdentifyAsync(ct)).ToString();
+        }
+
+        if (previous is null)
+        {
+            new RunManifest(
+                $"shuntsweep {typeof(RunCommand).Assembly.GetName().Version}",
+                sequencePath,
+                RunManifest.HashFile(sequencePath),
+                benchPath ?? BenchHost.DefaultBench,
+                RunManifest.HashFile(benchFile),
+                bench.Name,
+                bench.Uut.Manufacturer,
+                bench.Uut.Model,
+                bench.Uut.Serial,
+                bench.Uut.AssetId,
+                identities,
+                start,
+                seed,
+                bench.IsSimulated).Write(outDir);
+        }
+
+        var resumeAt = 0;
+        RunJournal journal;
+        if (resume is not null && EventLog.LastStepDone(resume) is { } last)
+        {
+            resumeAt = last.Step + 1;
+            journal = RunJournal.Reopen(resume, last, clock.Time, start);
+            AnsiConsole.MarkupLineInterpolated($"Resuming after step {last.Step} of {plan.Steps.Count}.");
+        }
+        else
+        {
+            if (resume is not null)
+            {
+                File.Delete(Path.Combine(resume, RunJournal.JournalFile));
+                File.Delete(Path.Combine(resume, RunJournal.EventsFile));
+            }
+
+            journal = RunJournal.Create(outDir, clock.Time, start);
+        }
+
+        RunOutcome outcome;
+        using (journal)
+        {
+            using var sigterm = System.Runtime.InteropServices.PosixSignalRegistration.Create(System.Runtime.InteropServices.PosixSignal.SIGTERM, ctx => ctx.Cancel = true);
+            outcome = await AnsiConsole.Progress()
+                .AutoClear(false)
+                .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn(), new ElapsedTimeColumn())
+                .StartAsync(async context =>
+                {
+                    var task = context.AddTask(sequence.Title, maxValue: plan.Steps.Count);
+                    task.Value = resumeAt;
+                    var progress = new SynchronousProgress(p =>
+                    {
+                        task.Value = p.StepsDone;
+                        task.Description = Markup.Escape(p.Activity);
+                    });
+                    var r = new Runner(instruments, bench, sequence, plan, op, journal, start, progress);
+                    return await r.RunAsync(resumeAt, bench.IsSimulated, ct);
+                });
+        }
+
+        wall.Stop();
+        var colour = outcome.End == RunEnd.Completed ? "green" : "red";
+        AnsiConsole.MarkupLineInterpolated($"[{colour}]{outcome.End}[/]: {outcome.Message}");
+        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "[red]NOT confirmed off — check the bench now[/]")}. Simulated time {(clock.Now() - start).TotalSeconds:0.0} s, wall time {wall.Elapsed.TotalSeconds:0.00} s.");
+
+        var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
+        var samples = JournalCsv.Read(journalPath).Samples;
+        if (samples.Count > 0)
+        {
+            var result = Characteriser.Analyse(samples, bench.Uut);
+            var resultPath = Path.Combine(outDir, "result.json");
+            ResultJson.Write(result, resultPath);
+            FitCommand.ShowRanges(result);
+            AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
+        }
+
+        return outcome.End switch
+        {
+            RunEnd.Completed => ExitCodes.Success,
+            RunEnd.SafetyAbort => ExitCodes.SafetyAbort,
+            RunEnd.InstrumentFailure => ExitCodes.InstrumentFailure,
+            _ => ExitCodes.Interrupted,
+        };
+    }
+
+    /// <summary>Reports progress on the caller's thread, so the bar always shows the latest step.</summary>
+    private sealed class SynchronousProgress(Action<RunProgress> report) : IProgress<RunProgress>
+    {
+        public void Report(RunProgress value) => report(value);
+    }
+}

@@ -1,0 +1,38 @@
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Timing;
+using ShuntSweep.Instruments;
+using ShuntSweep.Simulation;
+
+namespace ShuntSweep.Cli.Composition;
+
+/// <summary>The composition root for a bench: picks the clock, starts the in-process simulator for <c>SIM::</c> resources, and connects the drivers.</summary>
+internal static class BenchHost
+{
+    /// <summary>The bench used when none is given: the bundled simulated handheld meter.</summary>
+    public const string DefaultBench = "simulators/handheld-tarnwell-tw18.yaml";
+
+    /// <summary>Finds a bench file: as given, else next to the executable (for the bundled simulated benches).</summary>
+    public static string Locate(string? path)
+    {
+        var wanted = path ?? DefaultBench;
+        if (File.Exists(wanted))
+        {
+            return wanted;
+        }
+
+        var bundled = Path.Combine(AppContext.BaseDirectory, wanted);
+        return File.Exists(bundled) ? bundled : throw new FileNotFoundException($"The bench file '{wanted}' does not exist.", wanted);
+    }
+
+    /// <summary>The clock a bench runs on: virtual for a fully simulated bench, the system clock otherwise.</summary>
+    public static IBenchClock ClockFor(BenchDescription bench) =>
+        bench.IsSimulated ? new VirtualBenchClock(new VirtualTimeProvider()) : new RealBenchClock(TimeProvider.System);
+
+    /// <summary>Connects every instrument of <paramref name="bench"/>, starting the in-process simulator when the bench uses one.</summary>
+    public static async Task<InstrumentBench> ConnectAsync(BenchDescription bench, IBenchClock clock, int seed, Serilog.ILogger? traffic, CancellationToken ct)
+    {
+        var needsSimulator = bench.Instruments.Values.Any(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase));
+        var simulator = needsSimulator ? SimulatedBench.Create(bench, clock, seed) : null;
+        return await BenchConnector.ConnectAsync(bench, clock, simulator is null ? null : simulator.Connect, traffic, ct);
+    }
+}

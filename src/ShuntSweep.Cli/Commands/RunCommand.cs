@@ -149,7 +149,6 @@ internal static class RunCommand
         RunOutcome outcome;
         using (journal)
         {
-            using var sigterm = System.Runtime.InteropServices.PosixSignalRegistration.Create(System.Runtime.InteropServices.PosixSignal.SIGTERM, ctx => ctx.Cancel = true);
             outcome = await AnsiConsole.Progress()
                 .AutoClear(false)
                 .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn(), new ElapsedTimeColumn())

@@ -13,8 +13,6 @@ internal static class SerialTransport
             Handshake = settings.FlowControl,
             ReadTimeout = SerialPort.InfiniteTimeout,
             WriteTimeout = SerialPort.InfiniteTimeout,
-            DtrEnable = true,
-            RtsEnable = settings.FlowControl != Handshake.RequestToSend,
         };
         try
         {

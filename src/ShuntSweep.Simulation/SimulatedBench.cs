@@ -16,8 +16,6 @@ public sealed class SimulatedBench : IAsyncDisposable
     private readonly Dictionary<string, SimulatedInstrument> _instruments;
     private readonly BenchCircuit _circuit;
     private readonly CancellationTokenSource _stop = new();
-    private readonly List<Task> _sessions = [];
-    private readonly Lock _gate = new();
 
     private SimulatedBench(BenchDescription description, BenchCircuit circuit, Dictionary<string, SimulatedInstrument> instruments)
     {
@@ -72,20 +70,18 @@ public sealed class SimulatedBench : IAsyncDisposable
     }
 
     /// <summary>Opens an in-memory connection to the instrument <paramref name="name"/> (<c>supply</c> or <c>SIM::supply</c>, and so on).</summary>
-    /// <returns>The client end: write LF-terminated SCPI, read LF-terminated responses; dispose it to hang up.</returns>
-    public Stream Connect(string name)
-    {
-        var (client, server) = DuplexPipeStream.CreatePair();
-        Serve(name, server);
-        return client;
-    }
+    /// <returns>The client end: write LF-terminated SCPI (a write returns once its complete commands have been executed), read LF-terminated
+    /// responses; dispose it to hang up.</returns>
+    public Stream Connect(string name) => new InProcessConnection(Find(name), _stop.Token);
 
     /// <summary>Serves the instrument <paramref name="name"/> on <paramref name="stream"/> (a TCP connection, say) until either side closes it.</summary>
-    public Task ServeAsync(string name, Stream stream, CancellationToken cancellationToken)
+    public async Task ServeAsync(string name, Stream stream, CancellationToken cancellationToken)
     {
+        ArgumentNullException.ThrowIfNull(stream);
         var instrument = Find(name);
-        var linked = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken, _stop.Token);
-        return new ScpiSession(instrument).RunAsync(stream, linked.Token).ContinueWith(_ => linked.Dispose(), TaskScheduler.Default);
+        using var linked = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken, _stop.Token);
+        await using var session = new ScpiSession(instrument, stream, linked.Token);
+        await session.RunAsync(stream);
     }
 
     /// <summary>The cold series resistance of <paramref name="range"/> between the jacks: front end, fuse and contacts (ground truth for tests).</summary>
@@ -122,29 +118,12 @@ public sealed class SimulatedBench : IAsyncDisposable
     public async ValueTask DisposeAsync()
     {
         await _stop.CancelAsync();
-        Task[] sessions;
-        lock (_gate)
-        {
-            sessions = [.. _sessions];
-        }
-
-        await Task.WhenAll(sessions);
         foreach (var i in _instruments.Values)
         {
             i.Scpi.Dispose();
         }
 
         _stop.Dispose();
-    }
-
-    private void Serve(string name, Stream server)
-    {
-        var task = ServeAsync(name, server, CancellationToken.None);
-        lock (_gate)
-        {
-            _sessions.RemoveAll(t => t.IsCompleted);
-            _sessions.Add(task);
-        }
     }
 
     private SimulatedInstrument Find(string name)

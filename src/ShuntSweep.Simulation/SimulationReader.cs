@@ -83,7 +83,7 @@ internal static class SimulationReader
                 d?.QuantityOr("offsetAutoZeroOn", SiUnit.Volt, 2e-7) ?? 2e-7,
                 d?.QuantityOr("offsetAutoZeroOff", SiUnit.Volt, 3e-6) ?? 3e-6,
                 d?.QuantityOr("overhead", SiUnit.Second, 0.002) ?? 0.002,
-                d?.QuantityOr("counts", SiUnit.None, 1.2e6) ?? 1.2e6,
+                d?.QuantityOr("counts", SiUnit.None, 1.2e7) ?? 1.2e7,
                 line);
         }
 

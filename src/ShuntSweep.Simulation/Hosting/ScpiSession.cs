@@ -1,106 +1,158 @@
 using System.Text;
+using System.Threading.Channels;
 using ShuntSweep.Simulation.Faults;
 using ShuntSweep.Simulation.Scpi;
 
 namespace ShuntSweep.Simulation.Hosting;
 
-/// <summary>Serves one connection to one simulated instrument: reads LF-terminated program messages, executes them, writes the responses, with the declared faults in the path.</summary>
-internal sealed class ScpiSession(SimulatedInstrument instrument)
+/// <summary>One connection to one simulated instrument: assembles LF-terminated program messages, executes each as soon as it is complete,
+/// and sends the responses, in order, through the declared reply faults.</summary>
+/// <remarks>Execution happens on the caller of <see cref="AcceptAsync"/>, so an in-process client's write returns only once its command has
+/// taken effect (deterministic in virtual time); replies go out on their own task, so a delayed reply never blocks the next command.</remarks>
+internal sealed class ScpiSession : IAsyncDisposable
 {
     /// <summary>The longest program message accepted; a longer one is discarded with -363 "Input buffer overrun".</summary>
     public const int MaxLine = 65536;
 
-    /// <summary>Runs until the peer closes the stream, a fault drops the connection, or <paramref name="cancellationToken"/> fires.</summary>
-    public async Task RunAsync(Stream stream, CancellationToken cancellationToken)
+    private readonly SimulatedInstrument _instrument;
+    private readonly Stream _output;
+    private readonly CancellationTokenSource _stop;
+    private readonly Channel<(FaultContext Context, byte[] Reply)> _replies = Channel.CreateUnbounded<(FaultContext, byte[])>(new UnboundedChannelOptions { SingleReader = true });
+    private readonly List<byte> _line = [];
+    private readonly Task _pump;
+    private bool _overrun;
+    private bool _closed;
+
+    /// <summary>Starts a session that writes its responses to <paramref name="output"/>.</summary>
+    public ScpiSession(SimulatedInstrument instrument, Stream output, CancellationToken cancellationToken)
+    {
+        _instrument = instrument;
+        _output = output;
+        _stop = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken);
+        _pump = PumpAsync();
+    }
+
+    /// <summary>True once the instrument has dropped the connection (a fault) or the session was closed.</summary>
+    public bool IsClosed => _closed;
+
+    /// <summary>Takes bytes from the client and executes every message they complete; false once the connection is dropped.</summary>
+    public async ValueTask<bool> AcceptAsync(ReadOnlyMemory<byte> data, CancellationToken cancellationToken)
+    {
+        for (var i = 0; i < data.Length && !_closed; i++)
+        {
+            var b = data.Span[i];
+            if (b != (byte)'\n')
+            {
+                if (_line.Count < MaxLine)
+                {
+                    _line.Add(b);
+                }
+                else
+                {
+                    _overrun = true;
+                }
+
+                continue;
+            }
+
+            if (_overrun)
+            {
+                _instrument.Scpi.Push(ScpiErrors.InputBufferOverrun);
+                _overrun = false;
+                _line.Clear();
+                continue;
+            }
+
+            var text = Encoding.Latin1.GetString(_line.ToArray()).TrimEnd('\r');
+            _line.Clear();
+            await HandleAsync(text, cancellationToken);
+        }
+
+        return !_closed;
+    }
+
+    /// <summary>Reads from <paramref name="input"/> (a socket) until the peer closes it, the instrument drops it, or the session is stopped.</summary>
+    public async Task RunAsync(Stream input)
     {
         var buffer = new byte[4096];
-        var line = new List<byte>();
-        var overrun = false;
         try
         {
-            while (!cancellationToken.IsCancellationRequested)
+            while (!_closed)
             {
-                var n = await stream.ReadAsync(buffer, cancellationToken);
-                if (n == 0)
+                var n = await input.ReadAsync(buffer, _stop.Token);
+                if (n == 0 || !await AcceptAsync(buffer.AsMemory(0, n), _stop.Token))
                 {
                     return;
                 }
-
-                for (var i = 0; i < n; i++)
-                {
-                    var b = buffer[i];
-                    if (b != (byte)'\n')
-                    {
-                        if (line.Count < MaxLine)
-                        {
-                            line.Add(b);
-                        }
-                        else
-                        {
-                            overrun = true;
-                        }
-
-                        continue;
-                    }
-
-                    if (overrun)
-                    {
-                        instrument.Scpi.Push(ScpiErrors.InputBufferOverrun);
-                        overrun = false;
-                        line.Clear();
-                        continue;
-                    }
-
-                    var text = Encoding.Latin1.GetString(line.ToArray()).TrimEnd('\r');
-                    line.Clear();
-                    if (!await HandleAsync(stream, text, cancellationToken))
-                    {
-                        return;
-                    }
-                }
             }
         }
-        catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
+        catch (OperationCanceledException) when (_stop.IsCancellationRequested)
         {
         }
         catch (IOException)
         {
-            // The peer went away mid-reply; nothing to tell anyone.
-        }
-        finally
-        {
-            await stream.DisposeAsync();
+            // The peer went away; nothing to tell anyone.
         }
     }
 
-    private async Task<bool> HandleAsync(Stream stream, string text, CancellationToken cancellationToken)
+    /// <summary>Sends the replies still queued, then closes the output.</summary>
+    public async ValueTask DisposeAsync()
     {
-        var context = instrument.NextCommand();
-        foreach (var fault in instrument.Faults)
+        _closed = true;
+        _replies.Writer.TryComplete();
+        await _pump;
+        await _output.DisposeAsync();
+        _stop.Dispose();
+    }
+
+    private async Task HandleAsync(string text, CancellationToken cancellationToken)
+    {
+        var context = _instrument.NextCommand();
+        foreach (var fault in _instrument.Faults)
         {
             fault.OnCommand(context);
         }
 
         if (context.DropConnection)
         {
-            return false;
+            _closed = true;
+            _replies.Writer.TryComplete();
+            await _stop.CancelAsync();
+            return;
         }
 
-        var response = await instrument.Scpi.ExecuteAsync(text, cancellationToken);
-        if (response is null)
+        var response = await _instrument.Scpi.ExecuteAsync(text, cancellationToken);
+        if (response is not null)
         {
-            return true;
+            await _replies.Writer.WriteAsync((context, Encoding.ASCII.GetBytes(response + "\n")), cancellationToken);
         }
+    }
 
-        var wire = Encoding.ASCII.GetBytes(response + "\n");
-        foreach (var fault in instrument.Faults)
+    private async Task PumpAsync()
+    {
+        try
         {
-            wire = await fault.OnReplyAsync(context, wire, cancellationToken);
-        }
+            await foreach (var (context, reply) in _replies.Reader.ReadAllAsync(_stop.Token))
+            {
+                var wire = reply;
+                foreach (var fault in _instrument.Faults)
+                {
+                    wire = await fault.OnReplyAsync(context, wire, _stop.Token);
+                }
 
-        await stream.WriteAsync(wire, cancellationToken);
-        await stream.FlushAsync(cancellationToken);
-        return true;
+                await _output.WriteAsync(wire, _stop.Token);
+                await _output.FlushAsync(_stop.Token);
+            }
+        }
+        catch (OperationCanceledException) when (_stop.IsCancellationRequested)
+        {
+        }
+        catch (IOException)
+        {
+        }
+        catch (ObjectDisposedException)
+        {
+        }
     }
 }
 

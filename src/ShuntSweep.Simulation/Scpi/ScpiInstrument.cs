@@ -89,9 +89,15 @@ internal sealed class ScpiInstrument : IDisposable
                     Push(ex.Code, ex.Detail);
                     if (ex.Code is <= -100 and > -200)
                     {
-                        // After a command error the rest of the message cannot be trusted (IEEE 488.2 §6.1.6.1.1).
+                        // After a command error the rest of the message is not executed: the parser cannot tell where it would resume.
                         break;
                     }
+                }
+                catch (Exception ex) when (ex is ArithmeticException or ArgumentException or InvalidOperationException or KeyNotFoundException)
+                {
+                    // A simulator bug must not take the session down: report it as a device-specific error and carry on.
+                    Push(-300, ex.Message);
+                    break;
                 }
             }
 

@@ -1,0 +1,43 @@
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Engine.Planning;
+using ShuntSweep.Engine.Sequences;
+using Xunit;
+
+namespace ShuntSweep.Cli.Tests;
+
+/// <summary>Every file shipped in sequences/ and simulators/ loads, and every sequence plans safely on the bench it is written for.</summary>
+public sealed class SampleFileTests
+{
+    public static TheoryData<string> Benches() => new(Repo.Files("simulators", "*.yaml").Select(Path.GetFileName)!);
+
+    public static TheoryData<string> Sequences() => new(Repo.Files("sequences", "*.yaml").Select(Path.GetFileName)!);
+
+    [Theory]
+    [MemberData(nameof(Benches))]
+    public void EverySimulatedBench_Loads(string file)
+    {
+        var bench = BenchReader.Load(Repo.File(Path.Combine("simulators", file)));
+        Assert.True(bench.IsSimulated);
+        Assert.NotEmpty(bench.Uut.Ranges);
+    }
+
+    [Theory]
+    [MemberData(nameof(Sequences))]
+    public async Task EverySequence_PlansSafely_AndRunsOnItsBench(string file)
+    {
+        var path = Repo.File(Path.Combine("sequences", file));
+        var benchFile = BenchFor(path);
+        var plan = Planner.Plan(SequenceReader.Load(path), BenchReader.Load(benchFile));
+        Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
+        var dir = Testing.Some.TempDirectory();
+        Assert.Equal(0, await Cli.RunAsync("run", path, "--bench", benchFile, "--out", dir));
+        Assert.True(File.Exists(Path.Combine(dir, "result.json")));
+    }
+
+    /// <summary>A sequence names its bench in a leading comment line <c># bench: simulators/x.yaml</c>; the default bench otherwise.</summary>
+    private static string BenchFor(string sequence)
+    {
+        var line = File.ReadLines(sequence).FirstOrDefault(l => l.StartsWith("# bench:", StringComparison.Ordinal));
+        return Repo.File(line is null ? "simulators/handheld-tarnwell-tw18.yaml" : line["# bench:".Length..].Trim());
+    }
+}

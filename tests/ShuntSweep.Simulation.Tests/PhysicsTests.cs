@@ -107,7 +107,7 @@ public sealed class PhysicsTests
         await using var rig = Rig.FromText(MinimalBench(fuse: $"{{ coldResistance: {r0} ohm, alpha: {alpha}, thermalResistance: {rth}, timeConstant: {tau} s, preArcingI2t: 1000 }}"));
         var tauEffective = tau / (1 - (alpha * rth * r0 * current * current));
         await rig.DriveAsync("1 A", "0.3");
-        await rig.Dmm.SendAsync("CONF:VOLT:DC 10;:VOLT:NPLC 0.02;:ZERO:AUTO OFF");
+        await rig.Dmm.SendAsync("CONF:VOLT:DC 1;:VOLT:NPLC 0.1;:ZERO:AUTO OFF");
         var start = rig.Elapsed;
         var cold = (await rig.Dmm.NumbersAsync("READ?"))[0];
         await rig.Clock.WaitUntilAsync(rig.Clock.Now() + (TimeSpan.FromSeconds(tauEffective) - (rig.Elapsed - start)), TestContext.Current.CancellationToken);

@@ -84,6 +84,11 @@ internal static class ScpiNumber
         }
 
         var suffix = upper[end..].Trim(' ', '\t');
+        if (suffix.Length > 0 && !char.IsAsciiLetter(suffix[0]))
+        {
+            throw new ScpiException(ScpiErrors.InvalidCharacterInNumber, $"'{text}'");
+        }
+
         return suffix.Length == 0 ? number : number * Factor(suffix, unit, text);
     }
 

@@ -1,28 +1,43 @@
 using System.CommandLine;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Reporting;
+using ShuntSweep.Reporting.Archive;
 using Spectre.Console;
 
 namespace ShuntSweep.Cli.Commands;
 
-/// <summary><c>shuntsweep report DIR</c>: write the HTML report and plots of a run directory.</summary>
+/// <summary><c>shuntsweep report DIR</c>: write the HTML report and plots of a run directory, and optionally record the run in the archive.</summary>
 internal static class ReportCommand
 {
     public static Command Create()
     {
         var dirArg = new Argument<string>("directory") { Description = "A run directory (it must hold result.json; manifest, journal and events are used when present)." };
-        var command = new Command("report", "Write report.html (one self-contained file) and plots/ (PNG and SVG) for a run directory.") { dirArg };
-        command.SetAction((parse, _) => Terminal.GuardAsync(() =>
+        var recordOpt = new Option<bool>("--record") { Description = "Also record the run in the archive (it needs the run's manifest.json)." };
+        var archiveOpt = new Option<string?>("--archive")
+        {
+            Description = $"With --record: an SQLite file, an SQLite connection string (Data Source=...) or a PostgreSQL connection string (Host=...); default ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath}.",
+        };
+        var command = new Command("report", "Write report.html (one self-contained file) and plots/ (PNG and SVG) for a run directory.") { dirArg, recordOpt, archiveOpt };
+        command.SetAction((parse, ct) => Terminal.GuardAsync(async () =>
         {
             try
             {
-                var path = RunReport.Write(parse.GetValue(dirArg)!);
+                var dir = parse.GetValue(dirArg)!;
+                var path = RunReport.Write(dir);
                 AnsiConsole.MarkupLineInterpolated($"Report: {path}");
-                return Task.FromResult(ExitCodes.Success);
+                if (parse.GetValue(recordOpt))
+                {
+                    var location = ArchiveLocation.Resolve(parse.GetValue(archiveOpt));
+                    await using var archive = await location.OpenAsync(cancellationToken: ct);
+                    var run = await archive.RecordRunAsync(dir, ct);
+                    AnsiConsole.MarkupLineInterpolated($"Archived run {run.RunId} of {run.Serial} in {location.Display}.");
+                }
+
+                return ExitCodes.Success;
             }
             catch (InvalidDataException ex)
             {
-                return Task.FromResult(Terminal.Fail(ex.Message, ExitCodes.InvalidInput));
+                return Terminal.Fail(ex.Message, ExitCodes.InvalidInput);
             }
         }));
         return command;

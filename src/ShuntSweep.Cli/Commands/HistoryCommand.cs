@@ -1,0 +1,85 @@
+using System.CommandLine;
+using System.Globalization;
+using ShuntSweep.Cli.Composition;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Reporting.Archive;
+using ShuntSweep.Reporting.Plots;
+using Spectre.Console;
+
+namespace ShuntSweep.Cli.Commands;
+
+/// <summary><c>shuntsweep history SERIAL</c>: the archived runs of one UUT and each range's resistance over time, with drift flagged.</summary>
+internal static class HistoryCommand
+{
+    public static Command Create()
+    {
+        var serialArg = new Argument<string>("serial") { Description = "The UUT's serial number." };
+        var archiveOpt = new Option<string?>("--archive")
+        {
+            Description = $"An SQLite file, an SQLite connection string (Data Source=...) or a PostgreSQL connection string (Host=...); default ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath}.",
+        };
+        var driftOpt = new Option<string?>("--drift-limit") { Description = "The allowed change from the first archived run: a percentage (0.5%) or a resistance (2 mohm). Default 1%." };
+        var plotOpt = new Option<string?>("--plot") { Description = "Where to write the history plot, without extension (.png and .svg are written). Default history-<serial> in the working folder." };
+        var command = new Command("history", "List the archived runs of a UUT and each range's resistance over time; exit 1 when a range drifted beyond the limit.")
+        {
+            serialArg, archiveOpt, driftOpt, plotOpt,
+        };
+        command.SetAction((parse, ct) => Terminal.GuardAsync(async () =>
+        {
+            var serial = parse.GetValue(serialArg)!;
+            var limit = parse.GetValue(driftOpt) is { } d ? DriftLimit.Parse(d) : DriftLimit.Default;
+            var location = ArchiveLocation.Resolve(parse.GetValue(archiveOpt));
+            await using var archive = await location.OpenAsync(cancellationToken: ct);
+            var history = await archive.HistoryAsync(serial, ct);
+            if (history.Runs.Count == 0)
+            {
+                return Terminal.Fail($"The archive ({location.Display}) has no runs of serial '{serial}'.", ExitCodes.InvalidInput);
+            }
+
+            var runs = new Table().Title($"Runs of {Markup.Escape(serial)} in {Markup.Escape(location.Display)}").AddColumns("run", "start (UTC)", "model", "asset", "bench", "ended", "verdict");
+            foreach (var r in history.Runs)
+            {
+                runs.AddRow(
+                    Markup.Escape(r.RunId[..12]),
+                    r.Start.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture),
+                    Markup.Escape($"{r.Manufacturer} {r.Model}"),
+                    Markup.Escape(r.AssetId ?? "—"),
+                    Markup.Escape(r.BenchName) + (r.Simulated ? " (sim)" : string.Empty),
+                    Markup.Escape(r.RunEnd ?? "—"),
+                    Markup.Escape(r.Verdict ?? "—"));
+            }
+
+            AnsiConsole.Write(runs);
+            var drifted = 0;
+            foreach (var range in history.Ranges)
+            {
+                var table = new Table().Title($"Range {Markup.Escape(range.Range)} ({Markup.Escape(range.Jack)}): resistance over time, drift limit {Markup.Escape(limit.ToString())}")
+                    .AddColumns("start (UTC)", "model", "resistance", "u", "change", "drift");
+                foreach (var p in Drift.Assess(range, limit))
+                {
+                    drifted += p.BeyondLimit ? 1 : 0;
+                    table.AddRow(
+                        p.Reading.Start.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture),
+                        Markup.Escape(p.Reading.Model),
+                        QuantityFormatter.Format(p.Reading.ResistanceOhms, SiUnit.Ohm, 6),
+                        QuantityFormatter.Format(p.Reading.StandardUncertaintyOhms, SiUnit.Ohm, 3),
+                        double.IsFinite(p.ChangeFraction) ? (100 * p.ChangeFraction).ToString("+0.####;-0.####;0", CultureInfo.InvariantCulture) + " %" : "—",
+                        p.BeyondLimit ? "[red]beyond limit[/]" : "[green]within[/]");
+                }
+
+                AnsiConsole.Write(table);
+            }
+
+            var (png, svg) = HistoryPlot.Write(history, limit, parse.GetValue(plotOpt) ?? HistoryPlot.DefaultStem(serial));
+            AnsiConsole.MarkupLineInterpolated($"Plot: {png}, {svg}");
+            if (drifted > 0)
+            {
+                AnsiConsole.MarkupLineInterpolated($"[red]{drifted} reading(s) drifted beyond {limit}.[/]");
+                return ExitCodes.CheckFailed;
+            }
+
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+}

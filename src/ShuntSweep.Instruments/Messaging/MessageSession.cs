@@ -1,4 +1,5 @@
 using System.Net.Sockets;
+using System.Runtime.CompilerServices;
 using System.Text;
 using Serilog;
 using ShuntSweep.Instruments.Transports;
@@ -83,6 +84,7 @@ public sealed class MessageSession : IAsyncDisposable
     }
 
     /// <summary>Sends a command that has no answer.</summary>
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder))]
     public async ValueTask WriteAsync(string command, CancellationToken cancellationToken = default)
     {
         await _gate.WaitAsync(cancellationToken);
@@ -114,6 +116,7 @@ public sealed class MessageSession : IAsyncDisposable
     /// <param name="query">The query, for example <c>MEAS:VOLT?</c>.</param>
     /// <param name="timeout">How long to wait for the whole answer; the session's default when null.</param>
     /// <param name="cancellationToken">Cancels the wait; the answer, when it comes late, is discarded.</param>
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder<>))]
     public async ValueTask<string> QueryAsync(string query, TimeSpan? timeout = null, CancellationToken cancellationToken = default)
     {
         await _gate.WaitAsync(cancellationToken);
@@ -284,6 +287,7 @@ public sealed class MessageSession : IAsyncDisposable
     }
 
     /// <summary>Makes the session ready: reconnects when the link was lost, discards late and unasked input.</summary>
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder))]
     private async ValueTask PrepareAsync(CancellationToken cancellationToken)
     {
         ObjectDisposedException.ThrowIf(_disposed, this);
@@ -420,6 +424,7 @@ public sealed class MessageSession : IAsyncDisposable
         }
     }
 
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder))]
     private async ValueTask SendAsync(string command, CancellationToken token)
     {
         ArgumentNullException.ThrowIfNull(command);
@@ -449,6 +454,7 @@ public sealed class MessageSession : IAsyncDisposable
     }
 
     /// <summary>Waits until a whole terminated message is buffered at <see cref="_start"/>; returns its length without the terminator.</summary>
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder<>))]
     private async ValueTask<int> ReceiveMessageAsync(string query, CancellationToken token)
     {
         while (true)
@@ -544,6 +550,7 @@ public sealed class MessageSession : IAsyncDisposable
         }
     }
 
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder))]
     private async ValueTask FillAsync(string query, CancellationToken token)
     {
         if (_end == _in.Length)

@@ -6,10 +6,13 @@ public sealed record AnalysisOptions
     /// <summary>The |studentised residual| above which a point is flagged as an outlier. The default value is 3.5.</summary>
     public double OutlierThreshold { get; init; } = 3.5;
 
-    /// <summary>Degrees of freedom given to the pooled scatter when a point's own scatter is shrunk towards it for weighting. The default value is 4.</summary>
-    /// <remarks>A point with few samples has an unreliable standard deviation; shrinking it towards the range's pooled
-    /// scatter keeps one lucky (near-zero) scatter from dominating the fit. Zero uses each point's own scatter.</remarks>
-    public double PooledScatterDegreesOfFreedom { get; init; } = 4;
+    /// <summary>Degrees of freedom given to the range's smooth scatter model s²(I) = a + b·I² when a point's own scatter is shrunk towards it for weighting. The default value is 50.</summary>
+    /// <remarks>A point with a few samples has an unreliable standard deviation; leaning on the scatter model keeps one lucky (near-zero)
+    /// scatter from dominating the fit and keeps the stated uncertainties honest. Zero uses each point's own scatter alone.</remarks>
+    public double ScatterModelDegreesOfFreedom { get; init; } = 50;
+
+    /// <summary>The significance level a curved drop model must reach in the F-test against the straight line before it can be chosen. The default value is 0.01.</summary>
+    public double ModelSignificance { get; init; } = 0.01;
 
     /// <summary>The coverage probability of expanded uncertainties. The default value is 0.95.</summary>
     public double CoverageProbability { get; init; } = 0.95;

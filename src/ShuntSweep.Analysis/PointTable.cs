@@ -40,23 +40,16 @@ internal static class PointTable
         return new MeasuredPoint(step, samples.Count, setpoint, current, currentSd, drop, dropSd, reading, readingSd, readings.Count == samples.Count ? readings.Count : 0);
     }
 
-    /// <summary>Sets each point's drop uncertainty from its own scatter shrunk towards the pooled scatter of all points.</summary>
-    /// <remarks>With no scatter anywhere (a noiseless or heavily quantised voltmeter) every point gets the same unit uncertainty,
+    /// <summary>Sets each point's drop uncertainty from its own scatter, shrunk towards a smooth scatter model of the whole range.</summary>
+    /// <remarks>The scatter model is s²(I) = a + b·I² (a voltmeter noise floor plus noise that grows with the drop), fitted by QR to the
+    /// points' sample variances weighted by their degrees of freedom. Each point's variance is then
+    /// (νᵢ·sᵢ² + ν₀·s²(Iᵢ)) / (νᵢ + ν₀): a few samples per point cannot give a trustworthy weight on their own.
+    /// With no scatter anywhere (a noiseless or heavily quantised voltmeter) every point gets the same unit uncertainty,
     /// and the fit's residual scale sets the uncertainties.</remarks>
-    public static void AssignWeights(IReadOnlyList<MeasuredPoint> points, double pooledDegreesOfFreedom)
+    public static void AssignWeights(IReadOnlyList<MeasuredPoint> points, double modelDegreesOfFreedom)
     {
-        double pooledSs = 0;
-        var pooledDof = 0;
-        foreach (var p in points)
-        {
-            if (p.Samples > 1 && double.IsFinite(p.DropStdDevVolts) && double.IsNaN(p.FixedUncertaintyVolts))
-            {
-                pooledSs += p.DropStdDevVolts * p.DropStdDevVolts * (p.Samples - 1);
-                pooledDof += p.Samples - 1;
-            }
-        }
-
-        var pooled = pooledDof > 0 ? pooledSs / pooledDof : 0;
+        var scattered = points.Where(p => p.Samples > 1 && double.IsFinite(p.DropStdDevVolts) && double.IsNaN(p.FixedUncertaintyVolts)).ToList();
+        var model = ScatterModel(scattered);
         foreach (var p in points)
         {
             if (double.IsFinite(p.FixedUncertaintyVolts))
@@ -65,22 +58,52 @@ internal static class PointTable
                 continue;
             }
 
-            if (pooled <= 0)
+            var smooth = model(p.CurrentA);
+            if (!(smooth > 0))
             {
                 p.DropUncertaintyVolts = 1.0;
                 continue;
             }
 
-            var own = p.Samples > 1 ? p.DropStdDevVolts * p.DropStdDevVolts : 0;
-            var ownDof = Math.Max(p.Samples - 1, 0);
-            var variance = ((ownDof * own) + (pooledDegreesOfFreedom * pooled)) / (ownDof + pooledDegreesOfFreedom);
-            if (!(variance > 0))
+            var own = p.Samples > 1 && double.IsFinite(p.DropStdDevVolts) ? p.DropStdDevVolts * p.DropStdDevVolts : 0;
+            var ownDof = p.Samples > 1 ? p.Samples - 1 : 0;
+            var variance = ((ownDof * own) + (modelDegreesOfFreedom * smooth)) / (ownDof + modelDegreesOfFreedom);
+            p.DropUncertaintyVolts = Math.Sqrt((variance > 0 ? variance : smooth) / p.Samples);
+        }
+    }
+
+    private static Func<double, double> ScatterModel(List<MeasuredPoint> points)
+    {
+        var dofSum = points.Sum(p => p.Samples - 1.0);
+        var pooled = dofSum > 0 ? points.Sum(p => (p.Samples - 1.0) * p.DropStdDevVolts * p.DropStdDevVolts) / dofSum : 0;
+        if (!(pooled > 0) || points.Select(p => Math.Abs(p.CurrentA)).Distinct().Count() < 3)
+        {
+            return _ => pooled;
+        }
+
+        var x = points.Select(p => p.CurrentA * p.CurrentA).ToArray();
+        var v = points.Select(p => p.DropStdDevVolts * p.DropStdDevVolts).ToArray();
+        double a = pooled, b = 0;
+        for (var iteration = 0; iteration < 3; iteration++)
+        {
+            // The variance of a sample variance is 2σ⁴/ν, so each point weighs ν/(2σ⁴) at the current model.
+            var w = points.Select((p, i) => (p.Samples - 1.0) / Math.Pow(Math.Max(a + (b * x[i]), pooled * 1e-6), 2)).ToArray();
+            var fit = Fitting.LinearLeastSquares.Polynomial(x, v, w, 1);
+            (a, b) = (fit.Parameters[0], fit.Parameters[1]);
+            if (b < 0)
             {
-                variance = pooled;
+                (a, b) = (pooled, 0);
+                break;
             }
 
-            p.DropUncertaintyVolts = Math.Sqrt(variance / p.Samples);
+            if (a < 0)
+            {
+                a = 0;
+                b = v.Zip(x, (vi, xi) => vi * xi).Sum() / x.Sum(xi => xi * xi);
+            }
         }
+
+        return i => a + (b * i * i);
     }
 
     internal static (double Mean, double Sd) MeanSd(IEnumerable<double> values)

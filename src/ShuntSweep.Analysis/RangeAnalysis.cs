@@ -40,7 +40,7 @@ internal sealed class RangeAnalysis
             throw new ArgumentException($"Range '{name}' has {points.Count} point(s); a drop fit needs at least 3 points at different currents.");
         }
 
-        PointTable.AssignWeights(points, options.PooledScatterDegreesOfFreedom);
+        PointTable.AssignWeights(points, options.ScatterModelDegreesOfFreedom);
         var overload = ReadingOverload(points, spec);
         var data = new DropData(
             points.Select(p => p.CurrentA).ToArray(),
@@ -56,7 +56,7 @@ internal sealed class RangeAnalysis
         }
 
         var fits = candidates.Select(m => DropFitter.Fit(m, data)).ToList();
-        var (chosen, runnerUp) = DropFitter.Choose(fits);
+        var (chosen, runnerUp) = DropFitter.Choose(fits, options.ModelSignificance);
         var w = data.Weight;
         var studentised = Diagnostics.StudentisedResiduals(chosen.Residuals, w, chosen.Leverages, chosen.ChiSquare, chosen.DegreesOfFreedom);
         var pointResults = points.Select((p, i) => new PointResult(
@@ -77,7 +77,7 @@ internal sealed class RangeAnalysis
             pointResults,
             parameters,
             Correlation(chosen.Covariance),
-            Compare(fits, chosen, runnerUp),
+            Compare(fits, chosen, runnerUp, options.ModelSignificance),
             holds,
             readingError,
             readingError is null ? null : Summarise(readingError.Select(r => r.Statement).ToList()),
@@ -170,9 +170,9 @@ internal sealed class RangeAnalysis
         return list;
     }
 
-    private static ModelComparison Compare(IReadOnlyList<CandidateFit> fits, CandidateFit chosen, CandidateFit? runnerUp)
+    private static ModelComparison Compare(IReadOnlyList<CandidateFit> fits, CandidateFit chosen, CandidateFit? runnerUp, double significance)
     {
-        var baseFit = fits.FirstOrDefault(f => f.Succeeded && f.Model.IsLinear && f.Parameters.Length == 2);
+        var baseFit = DropFitter.BaseFit(fits);
         var candidates = fits.Select(f =>
         {
             var nested = f.Model.NestsOver is not null && baseFit is not null ? baseFit : null;
@@ -191,7 +191,7 @@ internal sealed class RangeAnalysis
         return new ModelComparison(
             chosen.Model.Name,
             runnerUp?.Model.Name,
-            "lowest AICc; among models within 2 AICc units of it, the one with fewest parameters",
+            $"a curved model must beat the straight line in the F-test at p < {significance:0.###}; then lowest AICc, and among models within 2 AICc units of it the one with fewest parameters",
             candidates);
     }
 

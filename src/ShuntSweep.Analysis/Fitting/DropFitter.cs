@@ -120,26 +120,35 @@ internal static class DropFitter
         return f <= 0 ? 1.0 : 1.0 - FisherSnedecor.CDF(extra, complex.DegreesOfFreedom, f);
     }
 
-    /// <summary>Chooses among successful fits: lowest AICc, then the fewest parameters among those within 2 AICc units of it.</summary>
-    public static (CandidateFit Chosen, CandidateFit? RunnerUp) Choose(IReadOnlyList<CandidateFit> fits)
+    /// <summary>Chooses among successful fits: a model that nests over a simpler one must beat it in the F-test at
+    /// <paramref name="significance"/>; among the eligible, the lowest AICc, then the fewest parameters within 2 AICc units of it.</summary>
+    /// <remarks>The F-test gate keeps noise from promoting a curved model: a curve chosen by chance biases the resistance it reports.</remarks>
+    public static (CandidateFit Chosen, CandidateFit? RunnerUp) Choose(IReadOnlyList<CandidateFit> fits, double significance)
     {
         ArgumentNullException.ThrowIfNull(fits);
+        var baseFit = BaseFit(fits);
         var ok = fits.Where(f => f.Succeeded && double.IsFinite(f.Aicc)).ToList();
-        if (ok.Count == 0)
+        var eligible = ok.Where(f => f.Model.NestsOver is null || baseFit is null || NestedFTest(baseFit, f) < significance).ToList();
+        if (eligible.Count == 0)
         {
-            ok = fits.Where(f => f.Succeeded).ToList();
-            if (ok.Count == 0)
+            eligible = ok.Count > 0 ? ok : fits.Where(f => f.Succeeded).ToList();
+            if (eligible.Count == 0)
             {
                 throw new FitFailedException("No drop model could be fitted: " + string.Join("; ", fits.Select(f => $"{f.Model.Name}: {f.FailureReason}")));
             }
-
-            return (ok[0], ok.Count > 1 ? ok[1] : null);
         }
 
-        var best = ok.Min(f => f.Aicc);
-        var chosen = ok.Where(f => f.Aicc <= best + 2).OrderBy(f => f.Parameters.Length).ThenBy(f => f.Aicc).First();
+        var best = eligible.Min(f => f.Aicc);
+        var chosen = eligible.Where(f => !double.IsFinite(best) || f.Aicc <= best + 2).OrderBy(f => f.Parameters.Length).ThenBy(f => f.Aicc).First();
         var runnerUp = ok.Where(f => f != chosen).OrderBy(f => f.Aicc).FirstOrDefault();
         return (chosen, runnerUp);
+    }
+
+    /// <summary>The two-parameter straight line every curved model is F-tested against (ohmic, or the amplified shunt in its place).</summary>
+    public static CandidateFit? BaseFit(IReadOnlyList<CandidateFit> fits)
+    {
+        ArgumentNullException.ThrowIfNull(fits);
+        return fits.FirstOrDefault(f => f.Succeeded && f.Model.IsLinear && f.Parameters.Length == 2);
     }
 
     private static CandidateFit Failed(IDropModel model, DropData data, string reason) =>

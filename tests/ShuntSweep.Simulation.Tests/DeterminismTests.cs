@@ -1,0 +1,93 @@
+using System.Net;
+using System.Net.Sockets;
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Simulation.Hosting;
+using ShuntSweep.Simulation.Tests.Support;
+
+namespace ShuntSweep.Simulation.Tests;
+
+public sealed class DeterminismTests
+{
+    [Fact]
+    public async Task SameSeed_GivesIdenticalTranscripts_DifferentSeedDoesNot()
+    {
+        var a = await TranscriptAsync(seed: 7);
+        var b = await TranscriptAsync(seed: 7);
+        var c = await TranscriptAsync(seed: 8);
+        Assert.Equal(a, b);
+        Assert.NotEqual(a, c);
+    }
+
+    [Fact]
+    public async Task TwoInstrumentsOverTcp_AnswerConcurrently()
+    {
+        var clock = new VirtualBenchClock(new VirtualTimeProvider());
+        await using var bench = SimulatedBench.Create(BenchReader.Load(Benches.Handheld), clock, 1);
+        await using var host = TcpBenchHost.Start(bench, IPAddress.Loopback, 0, allowRemote: false);
+        Assert.Equal(["supply", "load", "dmm", "uut", "ref"], host.Endpoints.Select(e => e.Name));
+        Assert.All(host.Endpoints, e => Assert.Matches(@"^TCPIP::127\.0\.0\.1::\d+::SOCKET$", e.Resource));
+
+        using var dmmSocket = new TcpClient();
+        using var uutSocket = new TcpClient();
+        await dmmSocket.ConnectAsync(IPAddress.Loopback, host.Endpoints.Single(e => e.Name == "dmm").Port, TestContext.Current.CancellationToken);
+        await uutSocket.ConnectAsync(IPAddress.Loopback, host.Endpoints.Single(e => e.Name == "uut").Port, TestContext.Current.CancellationToken);
+        await using var dmm = new ScpiClient(dmmSocket.GetStream());
+        await using var uut = new ScpiClient(uutSocket.GetStream());
+
+        // Both ask many questions at once; each must get its own answers, in order.
+        var dmmTask = Task.Run(async () =>
+        {
+            var answers = new List<string>();
+            for (var i = 0; i < 50; i++)
+            {
+                answers.Add(await dmm.QueryAsync("*IDN?;VOLT:NPLC?"));
+            }
+
+            return answers;
+        });
+        var uutTask = Task.Run(async () =>
+        {
+            var answers = new List<string>();
+            for (var i = 0; i < 50; i++)
+            {
+                answers.Add(await uut.QueryAsync("*IDN?"));
+            }
+
+            return answers;
+        });
+        var results = await Task.WhenAll(dmmTask, uutTask);
+        Assert.All(results[0], a => Assert.Equal("ShuntSweep Simulator,SIM-DMM-65,DMM-00031,1.0;+1.000000000E+00", a));
+        Assert.All(results[1], a => Assert.Equal("Tarnwell Metrology,TW-18,TW18-240417,1.07", a));
+    }
+
+    [Fact]
+    public async Task RemoteAddress_IsRefused_WithoutAllowRemote()
+    {
+        var clock = new VirtualBenchClock(new VirtualTimeProvider());
+        await using var bench = SimulatedBench.Create(BenchReader.Load(Benches.Handheld), clock, 1);
+        Assert.Throws<ArgumentException>(() => TcpBenchHost.Start(bench, IPAddress.Any, 0, allowRemote: false));
+    }
+
+    private static async Task<List<string>> TranscriptAsync(int seed)
+    {
+        await using var rig = Rig.Open(Benches.Handheld, seed);
+        var transcript = new List<string>();
+        await rig.Dmm.SendAsync("CONF:VOLT:DC 1;:VOLT:NPLC 1;:SAMP:COUN 3");
+        foreach (var (fullScale, current) in new[] { ("6 mA", "0.001"), ("6 mA", "0.005"), ("400 mA", "0.1"), ("400 mA", "0.35"), ("10 A", "3") })
+        {
+            await rig.DriveAsync(fullScale, current);
+            await rig.Clock.WaitAsync(TimeSpan.FromSeconds(2), TestContext.Current.CancellationToken);
+            await rig.Dmm.SendAsync("INIT");
+            await rig.Uut.SendAsync("INIT");
+            await rig.Ref!.SendAsync("INIT");
+            transcript.Add(await rig.Dmm.QueryAsync("FETC?"));
+            transcript.Add(await rig.Uut.QueryAsync("FETC?"));
+            transcript.Add(await rig.Ref.QueryAsync("FETC?"));
+            transcript.Add(await rig.Supply.QueryAsync("MEAS:VOLT?"));
+            transcript.Add(await rig.Load.QueryAsync("MEAS:CURR?"));
+            transcript.Add(rig.Elapsed.Ticks.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        }
+
+        return transcript;
+    }
+}

@@ -47,7 +47,7 @@ internal static class PlotStyle
         ArgumentNullException.ThrowIfNull(axis);
         axis.TickGenerator = new NumericAutomatic
         {
-            LabelFormatter = v => QuantityFormatter.Format(Math.Pow(10, v), unit, 2),
+            LabelFormatter = v => QuantityFormatter.Format(Math.Pow(10, v), unit, 3),
             MinorTickGenerator = new LogMinorTickGenerator(),
             IntegerTicksOnly = true,
         };

@@ -1,6 +1,7 @@
 using System.Net.Sockets;
 using Serilog;
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Documents;
 using ShuntSweep.Core.Timing;
 using ShuntSweep.Instruments.Drivers;
 using ShuntSweep.Instruments.Messaging;
@@ -21,7 +22,8 @@ public static class BenchConnector
     /// <param name="traffic">Receives every command and response; null to record nothing.</param>
     /// <param name="cancellationToken">Cancels connecting.</param>
     /// <param name="visa">Opens resources that need a VISA library (GPIB, VXI-11, HiSLIP); untested, see docs/instruments.md.</param>
-    /// <exception cref="Core.Documents.DocumentException">An instrument's settings or resource string are wrong.</exception>
+    /// <param name="readings">Where the operator types the UUT's reading, for a UUT of kind <c>operator</c>.</param>
+    /// <exception cref="DocumentException">An instrument's settings or resource string are wrong.</exception>
     /// <exception cref="InstrumentException">An instrument could not be reached or did not answer properly.</exception>
     public static async Task<InstrumentBench> ConnectAsync(
         BenchDescription bench,
@@ -29,20 +31,18 @@ public static class BenchConnector
         Func<string, Stream>? simulated,
         ILogger? traffic,
         CancellationToken cancellationToken,
-        IVisaLibrary? visa = null)
+        IVisaLibrary? visa = null,
+        IReadingEntry? readings = null)
     {
         ArgumentNullException.ThrowIfNull(bench);
         ArgumentNullException.ThrowIfNull(clock);
-        var ioTime = clock.Time is VirtualTimeProvider ? TimeProvider.System : clock.Time;
+        var context = new Context(simulated, visa, readings, clock.Time is VirtualTimeProvider ? TimeProvider.System : clock.Time, traffic);
         var baseDirectory = Path.GetDirectoryName(Path.GetFullPath(bench.File));
 
         // Read every instrument's settings first, so that a typo is reported before anything is opened.
-        var plans = bench.Instruments.Values
-            .Select(entry => (Entry: entry, Address: ParseResource(entry), Settings: DriverSettings.Read(entry.Settings, baseDirectory)))
-            .Select(p => (p.Entry, p.Address, p.Settings, Profile: LoadProfile(p.Entry, p.Settings)))
-            .ToList();
+        var plans = bench.Instruments.Values.Select(entry => Prepare(entry, baseDirectory, readings)).ToList();
 
-        var connecting = plans.Select(p => ConnectOneAsync(p.Entry.Role, p.Address, p.Settings, p.Profile, simulated, visa, ioTime, traffic, cancellationToken)).ToList();
+        var connecting = plans.Select(p => ConnectOneAsync(p, context, cancellationToken)).ToList();
         try
         {
             await Task.WhenAll(connecting);
@@ -51,17 +51,10 @@ public static class BenchConnector
         {
             foreach (var t in connecting.Where(t => t.IsCompletedSuccessfully))
             {
-                await t.Result.Session.DisposeAsync();
+                await t.Result.Connection.DisposeAsync();
             }
 
             var failures = connecting.Where(t => t.IsFaulted).SelectMany(t => t.Exception!.InnerExceptions).ToList();
-            if (failures.Count == 1)
-            {
-                throw failures[0] is InstrumentException or Core.Documents.DocumentException
-                    ? failures[0]
-                    : new InstrumentConnectionException(failures[0].Message, "connecting failed.", failures[0]);
-            }
-
             if (failures.Count > 1)
             {
                 throw new AggregateException($"{failures.Count} instruments could not be connected: {string.Join(" | ", failures.Select(f => f.Message))}", failures);
@@ -81,7 +74,7 @@ public static class BenchConnector
             Driver<IVoltmeter>(InstrumentRole.DropMeter) ?? throw new InvalidOperationException("the bench has no drop meter."),
             Driver<IUutMeter>(InstrumentRole.UutMeter),
             Driver<IReferenceAmmeter>(InstrumentRole.Reference),
-            connected.Values.Select(c => (IAsyncDisposable)c.Session).ToList(),
+            connected.Values.Select(c => c.Connection).ToList(),
             connected.Values.Select(c => c.Info).OrderBy(i => i.Role).ToList());
     }
 
@@ -99,68 +92,119 @@ public static class BenchConnector
         ArgumentNullException.ThrowIfNull(address);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(profile);
-        var opener = TransportFactory.For(address, settings, simulated, visa);
+        var (transport, opener) = await OpenTransportAsync(address, settings, simulated, visa, ioTime, cancellationToken);
         var options = settings.Session with
         {
             ClearCommands = profile.Commands("common.afterResync"),
             ErrorQuery = profile.Query("common.nextError"),
         };
-        using var timeout = new CancellationTokenSource(options.Timeout, ioTime);
-        using var linked = CancellationTokenSource.CreateLinkedTokenSource(timeout.Token, cancellationToken);
-        ITransport transport;
+        return new MessageSession(transport, options, opener, ioTime, traffic);
+    }
+
+    private static async Task<(ITransport Transport, TransportOpener Opener)> OpenTransportAsync(
+        ResourceAddress address,
+        DriverSettings settings,
+        Func<string, Stream>? simulated,
+        IVisaLibrary? visa,
+        TimeProvider ioTime,
+        CancellationToken cancellationToken)
+    {
+        var timeoutLimit = settings.Session.Timeout;
         try
         {
-            transport = await opener(linked.Token);
-        }
-        catch (OperationCanceledException) when (timeout.IsCancellationRequested && !cancellationToken.IsCancellationRequested)
-        {
-            throw new InstrumentConnectionException(address.Text, $"no connection within {options.Timeout.TotalSeconds:0.###} s.");
+            var opener = TransportFactory.For(address, settings, simulated, visa);
+            using var timeout = new CancellationTokenSource(timeoutLimit, ioTime);
+            using var linked = CancellationTokenSource.CreateLinkedTokenSource(timeout.Token, cancellationToken);
+            try
+            {
+                return (await opener(linked.Token), opener);
+            }
+            catch (OperationCanceledException) when (timeout.IsCancellationRequested && !cancellationToken.IsCancellationRequested)
+            {
+                throw new InstrumentConnectionException(address.Text, $"no connection within {timeoutLimit.TotalSeconds:0.###} s.");
+            }
         }
         catch (Exception ex) when (ex is SocketException or IOException or UnauthorizedAccessException or ArgumentException)
         {
             throw new InstrumentConnectionException(address.Text, $"cannot connect: {ex.Message}", ex);
         }
-
-        return new MessageSession(transport, options, opener, ioTime, traffic);
     }
 
-    private static async Task<Connected> ConnectOneAsync(
-        InstrumentRole role,
-        ResourceAddress address,
-        DriverSettings settings,
-        InstrumentProfile profile,
-        Func<string, Stream>? simulated,
-        IVisaLibrary? visa,
-        TimeProvider ioTime,
-        ILogger? traffic,
-        CancellationToken cancellationToken)
+    private static Plan Prepare(InstrumentEntry entry, string? baseDirectory, IReadingEntry? readings)
     {
-        var session = await OpenSessionAsync(address, settings, profile, simulated, ioTime, traffic, visa, cancellationToken);
+        var settings = DriverSettings.Read(entry.Settings, baseDirectory, entry.Role);
+        if (settings.TypedByOperator)
+        {
+            return readings is null
+                ? throw entry.Settings.Error($"{entry.Settings.What}: the UUT is read by the operator (kind: operator), which needs an interactive session.")
+                : new Plan(entry, null, settings, InstrumentProfile.Default);
+        }
+
+        ResourceAddress address;
         try
         {
-            var resilience = InstrumentResilience.Create(address.Text, settings.Resilience, ioTime);
-            ScpiInstrument driver = role switch
+            address = ResourceAddress.Parse(entry.Resource);
+        }
+        catch (FormatException ex)
+        {
+            throw entry.Settings.Required("resource").Error($"{entry.Settings.What}.resource: {ex.Message}");
+        }
+
+        try
+        {
+            return new Plan(entry, address, settings, InstrumentProfile.Load(settings.Profile, settings.BaseDirectory));
+        }
+        catch (FileNotFoundException ex)
+        {
+            throw entry.Settings.Required("profile").Error($"{entry.Settings.What}.profile: {ex.Message}");
+        }
+    }
+
+    private static async Task<Connected> ConnectOneAsync(Plan plan, Context context, CancellationToken cancellationToken)
+    {
+        var (entry, address, settings, profile) = plan;
+        if (address is null)
+        {
+            var typed = new OperatorUutMeter(entry.Resource, context.Readings!);
+            var info = new ConnectedInstrument(entry.Role, entry.Resource, await typed.IdentifyAsync(cancellationToken), "operator", []);
+            return new Connected(info, typed, NoConnection.Instance);
+        }
+
+        if (settings.StreamedReading is { } streamed)
+        {
+            var (transport, _) = await OpenTransportAsync(address, settings, context.Simulated, context.Visa, context.IoTime, cancellationToken);
+            var meter = new StreamedUutMeter(transport, streamed, settings.Session.Timeout, context.IoTime);
+            var info = new ConnectedInstrument(entry.Role, address.Text, await meter.IdentifyAsync(cancellationToken), "display stream", []);
+            return new Connected(info, meter, meter);
+        }
+
+        var session = await OpenSessionAsync(address, settings, profile, context.Simulated, context.IoTime, context.Traffic, context.Visa, cancellationToken);
+        try
+        {
+            var resilience = InstrumentResilience.Create(address.Text, settings.Resilience, context.IoTime);
+            IInstrument driver = entry.Role switch
             {
                 InstrumentRole.Supply => new ScpiSupply(session, profile, resilience),
                 InstrumentRole.Load => new ScpiLoad(session, profile, resilience),
                 InstrumentRole.DropMeter => new ScpiVoltmeter(session, profile, settings.Timing, resilience),
                 InstrumentRole.UutMeter => new ScpiUutMeter(session, profile, settings.Timing, settings.Nplc, resilience),
+                InstrumentRole.Reference when settings.Shunt is { } shunt => new ShuntReferenceAmmeter(new ScpiVoltmeter(session, profile, settings.Timing, resilience), shunt),
                 InstrumentRole.Reference => new ScpiReferenceAmmeter(session, profile, settings.Timing, resilience),
-                _ => throw new ArgumentOutOfRangeException(nameof(role), role, "unknown role"),
+                _ => throw new ArgumentOutOfRangeException(nameof(plan), entry.Role, "unknown role"),
             };
             var identity = await driver.IdentifyAsync(cancellationToken);
             var errors = await driver.ReadErrorsAsync(cancellationToken);
+            if (errors.Count > 0)
+            {
+                context.Traffic?.ForContext("Resource", session.Resource).Warning("errors left in the queue on connection: {Errors}", string.Join("; ", errors));
+            }
+
             if (driver is ScpiUutMeter uut)
             {
                 await uut.ApplyNplcAsync(cancellationToken);
             }
 
-            if (errors.Count > 0)
-            {
-                traffic?.ForContext("Resource", session.Resource).Warning("errors left in the queue on connection: {Errors}", string.Join("; ", errors));
-            }
-
-            return new Connected(new ConnectedInstrument(role, address.Text, identity, profile.Name, errors), driver, session);
+            return new Connected(new ConnectedInstrument(entry.Role, address.Text, identity, profile.Name, errors), driver, session);
         }
         catch
         {
@@ -169,29 +213,16 @@ public static class BenchConnector
         }
     }
 
-    private static ResourceAddress ParseResource(InstrumentEntry entry)
-    {
-        try
-        {
-            return ResourceAddress.Parse(entry.Resource);
-        }
-        catch (FormatException ex)
-        {
-            throw entry.Settings.Required("resource").Error($"{entry.Settings.What}.resource: {ex.Message}");
-        }
-    }
+    private sealed record Plan(InstrumentEntry Entry, ResourceAddress? Address, DriverSettings Settings, InstrumentProfile Profile);
 
-    private static InstrumentProfile LoadProfile(InstrumentEntry entry, DriverSettings settings)
-    {
-        try
-        {
-            return InstrumentProfile.Load(settings.Profile, settings.BaseDirectory);
-        }
-        catch (FileNotFoundException ex)
-        {
-            throw entry.Settings.Required("profile").Error($"{entry.Settings.What}.profile: {ex.Message}");
-        }
-    }
+    private sealed record Context(Func<string, Stream>? Simulated, IVisaLibrary? Visa, IReadingEntry? Readings, TimeProvider IoTime, ILogger? Traffic);
 
-    private sealed record Connected(ConnectedInstrument Info, ScpiInstrument Driver, MessageSession Session);
+    private sealed record Connected(ConnectedInstrument Info, IInstrument Driver, IAsyncDisposable Connection);
+
+    private sealed class NoConnection : IAsyncDisposable
+    {
+        public static readonly NoConnection Instance = new();
+
+        public ValueTask DisposeAsync() => ValueTask.CompletedTask;
+    }
 }

@@ -1,4 +1,5 @@
 using System.IO.Ports;
+using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Documents;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Instruments.Drivers;
@@ -13,6 +14,17 @@ namespace ShuntSweep.Instruments;
 /// <param name="StopBits">Stop bits; the default value is one.</param>
 /// <param name="FlowControl">Handshake; the default value is none.</param>
 public sealed record SerialSettings(int Baud = 9600, Parity Parity = Parity.None, int DataBits = 8, StopBits StopBits = StopBits.One, Handshake FlowControl = Handshake.None);
+
+/// <summary>A UUT that sends its display as lines of text (a serial "data out" stream), decoded by a pattern.</summary>
+/// <param name="Pattern">A regular expression with a group <c>value</c> and optionally a group <c>unit</c> (A, mA, uA, µA, nA).</param>
+/// <param name="Overload">A regular expression that, matching a line, means the display shows overload (for example <c>^ *OL\b</c>); null when none.</param>
+/// <param name="ReadingInterval">How often the UUT sends a reading; a fetch waits for the first line after the arm.</param>
+public sealed record StreamedReadingSettings(System.Text.RegularExpressions.Regex Pattern, System.Text.RegularExpressions.Regex? Overload, TimeSpan ReadingInterval);
+
+/// <summary>The reference shunt a voltmeter reads across when the reference current is taken as V / R.</summary>
+/// <param name="Resistance">The shunt's calibrated value.</param>
+/// <param name="StandardUncertainty">The standard uncertainty of that value.</param>
+public sealed record ReferenceShunt(Resistance Resistance, Resistance StandardUncertainty);
 
 /// <summary>The driver settings of one instrument, read strictly from its mapping in the bench file.</summary>
 /// <param name="Profile">The profile name or file.</param>
@@ -36,10 +48,57 @@ public sealed record DriverSettings(
     /// <summary>The settings used when nothing is configured (probe of a bare resource string).</summary>
     public static DriverSettings Default { get; } = new(Profiles.InstrumentProfile.DefaultName, new SessionOptions(), MeterTiming.Default, 1, null, Instruments.Resilience.ResilienceSettings.Default, null, null);
 
+    /// <summary>How the UUT's reading is obtained, for the UUT role; null means a SCPI meter.</summary>
+    public StreamedReadingSettings? StreamedReading { get; init; }
+
+    /// <summary>True when the operator types the UUT's reading.</summary>
+    public bool TypedByOperator { get; init; }
+
+    /// <summary>The reference shunt, when the reference is a voltmeter across it.</summary>
+    public ReferenceShunt? Shunt { get; init; }
+
     /// <summary>Reads the settings of an instrument mapping (whose <c>resource</c> was already read) and rejects unknown keys.</summary>
-    public static DriverSettings Read(MappingReader map, string? baseDirectory)
+    /// <param name="map">The instrument's mapping in the bench file.</param>
+    /// <param name="baseDirectory">The bench file's directory, for relative profile paths.</param>
+    /// <param name="role">The instrument's role, which decides what <c>kind</c> may be; null for a role-less probe.</param>
+    public static DriverSettings Read(MappingReader map, string? baseDirectory, InstrumentRole? role = null)
     {
         ArgumentNullException.ThrowIfNull(map);
+        var kind = role switch
+        {
+            InstrumentRole.UutMeter => map.Choice("kind", "scpi", "scpi", "stream", "operator"),
+            InstrumentRole.Reference => map.Choice("kind", "ammeter", "ammeter", "shunt"),
+            _ => map.Optional("kind") is { } k ? throw k.Error($"{k.What}: only the uutMeter and reference roles have a kind.") : "scpi",
+        };
+        StreamedReadingSettings? streamed = null;
+        if (kind == "stream")
+        {
+            var patternNode = map.Required("pattern");
+            var regex = Pattern(patternNode);
+
+            if (!regex.GetGroupNames().Contains("value"))
+            {
+                throw patternNode.Error($"{patternNode.What}: the pattern needs a group named 'value', for example '(?<value>[-+]?[0-9.]+) *(?<unit>[munµ]?A)'.");
+            }
+
+            var overload = map.Optional("overload") is { } o ? Pattern(o) : null;
+            var interval = map.QuantityOr("readingInterval", SiUnit.Second, 0.5);
+            streamed = new StreamedReadingSettings(regex, overload, TimeSpan.FromSeconds(interval));
+        }
+
+        ReferenceShunt? shunt = null;
+        if (kind == "shunt")
+        {
+            var ohms = map.Quantity("shunt", SiUnit.Ohm);
+            var u = map.QuantityOr("shuntUncertainty", SiUnit.Ohm, 0);
+            if (ohms <= 0 || u < 0)
+            {
+                throw map.Required("shunt").Error($"{map.What}.shunt: must be > 0 Ω with shuntUncertainty ≥ 0 Ω.");
+            }
+
+            shunt = new ReferenceShunt(new Resistance(ohms), new Resistance(u));
+        }
+
         var profile = map.StringOr("profile", Profiles.InstrumentProfile.DefaultName)!;
         var timeout = map.QuantityOr("timeout", SiUnit.Second, 2);
         if (timeout <= 0 || timeout > 3600)
@@ -81,7 +140,12 @@ public sealed record DriverSettings(
             ReadTermination = read,
             WriteTermination = write,
         };
-        return new DriverSettings(profile, session, new MeterTiming(lineFrequency, TimeSpan.FromSeconds(overhead), margin), nplc, serial, resilience, device, baseDirectory);
+        return new DriverSettings(profile, session, new MeterTiming(lineFrequency, TimeSpan.FromSeconds(overhead), margin), nplc, serial, resilience, device, baseDirectory)
+        {
+            StreamedReading = streamed,
+            TypedByOperator = kind == "operator",
+            Shunt = shunt,
+        };
     }
 
     private static readonly string[] SerialKeys = ["baud", "parity", "dataBits", "stopBits", "flowControl"];
@@ -117,6 +181,18 @@ public sealed record DriverSettings(
             _ => Handshake.None,
         };
         return new SerialSettings(baud, parity, dataBits, stopBits, flow);
+    }
+
+    private static System.Text.RegularExpressions.Regex Pattern(NodeReader node)
+    {
+        try
+        {
+            return new System.Text.RegularExpressions.Regex(node.AsString(), System.Text.RegularExpressions.RegexOptions.CultureInvariant, TimeSpan.FromMilliseconds(100));
+        }
+        catch (ArgumentException ex)
+        {
+            throw node.Error($"{node.What}: not a valid regular expression: {ex.Message}");
+        }
     }
 
     private static string Terminator(string word) => word switch

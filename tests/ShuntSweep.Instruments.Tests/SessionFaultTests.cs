@@ -37,15 +37,15 @@ public sealed class SessionFaultTests
     }
 
     [Theory]
-    [InlineData(450, 1)] // the late answer arrives within the next exchange's wait: discarded, same connection
-    [InlineData(1500, 2)] // it does not: the connection is reopened, so it can never be read
+    [InlineData(750, 1)] // the late answer arrives within the next exchange's wait: discarded, same connection
+    [InlineData(3000, 2)] // it does not: the connection is reopened, so it can never be read
     public async Task LateAnswerAfterTimeout_IsNeverTheNextAnswer(int delayMs, int expectedConnections)
     {
         var fake = FakeInstrument.Supply();
         fake.Fault = c => c == "MEAS:VOLT?" ? new Reply("+1.000000E+00\n"u8.ToArray(), TimeSpan.FromMilliseconds(delayMs)) : null;
         fake.Queries["MEAS:CURR?"] = _ => "+2.000000E-01";
         await using var server = ScpiResponder.Start(fake);
-        await using var session = await DriverTests.OpenAsync(server, Fast(300));
+        await using var session = await DriverTests.OpenAsync(server, Fast(500));
 
         var timeout = await Assert.ThrowsAsync<InstrumentTimeoutException>(async () => await session.QueryAsync("MEAS:VOLT?", null, Ct));
         Assert.Contains("no complete answer to 'MEAS:VOLT?'", timeout.Message, StringComparison.Ordinal);

@@ -71,7 +71,13 @@ internal static class ProbeCommand
             var baseDirectory = Path.GetDirectoryName(Path.GetFullPath(bench.File));
             foreach (var entry in bench.Instruments.Values.OrderBy(e => e.Role))
             {
-                var settings = DriverSettings.Read(entry.Settings, baseDirectory);
+                var settings = DriverSettings.Read(entry.Settings, baseDirectory, entry.Role);
+                if (settings.TypedByOperator || settings.StreamedReading is not null)
+                {
+                    AnsiConsole.MarkupLineInterpolated($"{BenchReader.KeyOf(entry.Role)}: not probed (its reading is typed by the operator or sent as a display stream; it has no *IDN?).");
+                    continue;
+                }
+
                 targets.Add(new Target($"{BenchReader.KeyOf(entry.Role)} {entry.Resource}", ResourceAddress.Parse(entry.Resource), settings, InstrumentProfile.Load(settings.Profile, baseDirectory)));
             }
 

@@ -70,4 +70,7 @@ public interface IReferenceAmmeter : ITriggeredMeter
 {
     /// <summary>Selects a range able to carry <paramref name="maximum"/>.</summary>
     Task ConfigureAsync(Current maximum, double nplc, CancellationToken cancellationToken = default);
+
+    /// <summary>The shunt a voltmeter reads across when the reference is V / R (its value and standard uncertainty, for the uncertainty budget); null for an ammeter.</summary>
+    ReferenceShunt? Shunt => null;
 }

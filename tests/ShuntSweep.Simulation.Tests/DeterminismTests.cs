@@ -61,6 +61,21 @@ public sealed class DeterminismTests
     }
 
     [Fact]
+    public async Task SpedUpRealClock_ServesOverTcp_WithSimulatedTimeRunningAhead()
+    {
+        // `sim serve --speed 500`: a real clock scaled 500×; a 1 s simulated measurement completes and SIM:TIME? runs ahead.
+        var clock = new RealBenchClock(new ShuntSweep.Simulation.Hosting.ScaledTimeProvider(TimeProvider.System, 500));
+        await using var bench = SimulatedBench.Create(BenchReader.Load(Benches.Handheld), clock, 1);
+        await using var host = TcpBenchHost.Start(bench, IPAddress.Loopback, 0, allowRemote: false);
+        using var socket = new TcpClient();
+        await socket.ConnectAsync(IPAddress.Loopback, host.Endpoints.Single(e => e.Name == "dmm").Port, TestContext.Current.CancellationToken);
+        await using var dmm = new ScpiClient(socket.GetStream());
+        await dmm.SendAsync("CONF:VOLT:DC 1;:VOLT:NPLC 10;:ZERO:AUTO OFF;:SAMP:COUN 5");
+        Assert.Equal(5, (await dmm.NumbersAsync("READ?")).Length);
+        Assert.True(await dmm.NumberAsync("SIM:TIME?") >= 1.0);
+    }
+
+    [Fact]
     public async Task RemoteAddress_IsRefused_WithoutAllowRemote()
     {
         var clock = new VirtualBenchClock(new VirtualTimeProvider());

@@ -26,7 +26,7 @@ internal static class VoltmeterInstrument
                 return;
             }
 
-            var requested = c.Number(index, ScpiUnit.Volt, 0, ranges[^1], ranges[^1]);
+            var requested = c.Number(index, ScpiUnit.Volt, 0, ranges[^1], 10);
             state.Auto = false;
             state.Range = ranges.First(r => r >= requested * (1 - 1e-9));
             circuit.Change(b => b.DmmRange = state.Range);

@@ -170,6 +170,20 @@ public sealed class InstrumentTests
         Assert.Equal(0.5 * 0.301, await rig.DropAsync(10, "1"), 0.5 * 0.301 * 2e-3);
     }
 
+    [Fact]
+    public async Task Reference_ReadsTheLoopCurrent_AsAmmeterOrAsVoltageAcrossItsShunt()
+    {
+        await using var rig = Rig.Open(Benches.Handheld);
+        await rig.DriveAsync("400 mA", "0.25");
+        await rig.Ref!.SendAsync("CONF:CURR:DC 1;:CURR:DC:NPLC 10");
+        var amperes = (await rig.Ref.NumbersAsync("READ?"))[0];
+        await rig.Ref.SendAsync("CONF:VOLT:DC 0.1;:VOLT:DC:NPLC 10;:ZERO:AUTO ON");
+        var volts = (await rig.Ref.NumbersAsync("READ?"))[0];
+        Assert.Equal(0.25, amperes, 1e-5);
+        Assert.Equal(0.25 * 0.010, volts, 1e-6); // Ohm's law across the 10 mΩ reference shunt
+        Assert.Empty(await rig.Ref.DrainErrorsAsync());
+    }
+
     private static double StandardDeviation(double[] values)
     {
         var mean = values.Average();

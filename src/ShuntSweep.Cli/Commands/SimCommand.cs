@@ -11,15 +11,12 @@ namespace ShuntSweep.Cli.Commands;
 /// <summary>The <c>shuntsweep sim</c> commands: serve a simulated bench on TCP ports so any SCPI client can drive it.</summary>
 internal static class SimCommand
 {
-    /// <summary>The bench served when none is named.</summary>
-    public const string DefaultBench = "simulators/handheld-tarnwell-tw18.yaml";
-
     /// <summary>Builds <c>sim</c> with its <c>serve</c> subcommand.</summary>
     public static Command Create()
     {
         var bench = new Argument<FileInfo?>("bench")
         {
-            Description = $"The simulated bench file (a bench file with a 'simulation' section). Default: {DefaultBench}.",
+            Description = $"The simulated bench file (a bench file with a 'simulation' section). Default: {Composition.BenchHost.DefaultBench}.",
             Arity = ArgumentArity.ZeroOrOne,
         };
         var host = new Option<string>("--host")
@@ -52,7 +49,7 @@ internal static class SimCommand
             bench, host, port, speed, seed, allowRemote,
         };
         serve.SetAction((result, cancellationToken) => ServeAsync(
-            result.GetValue(bench)?.FullName ?? Path.GetFullPath(DefaultBench),
+            result.GetValue(bench)?.FullName,
             result.GetValue(host) ?? "127.0.0.1",
             result.GetValue(port),
             result.GetValue(speed),
@@ -63,36 +60,41 @@ internal static class SimCommand
         return new Command("sim", "Run the physics-faithful simulated bench.") { serve };
     }
 
-    private static async Task<int> ServeAsync(string path, string hostText, int port, double speed, int seed, bool allowRemote, CancellationToken cancellationToken)
+    private static async Task<int> ServeAsync(string? given, string hostText, int port, double speed, int seed, bool allowRemote, CancellationToken cancellationToken)
     {
         if (!IPAddress.TryParse(hostText, out var address))
         {
             await Console.Error.WriteLineAsync($"--host: '{hostText}' is not an IP address (for example 127.0.0.1).");
-            return 2;
+            return ExitCodes.InvalidInput;
         }
 
         if (!IPAddress.IsLoopback(address) && !allowRemote)
         {
             await Console.Error.WriteLineAsync($"--host {address} is not a loopback address; the simulator has no authentication. Add --allow-remote to serve it on the network anyway.");
-            return 2;
+            return ExitCodes.InvalidInput;
         }
 
         if (port is < 0 or > 65535)
         {
             await Console.Error.WriteLineAsync($"--port: {port} is not a TCP port (0 to 65535).");
-            return 2;
+            return ExitCodes.InvalidInput;
         }
 
         if (!double.IsFinite(speed) || speed <= 0)
         {
             await Console.Error.WriteLineAsync($"--speed: {speed} must be a positive number (1 = real time).");
-            return 2;
+            return ExitCodes.InvalidInput;
         }
 
-        if (!File.Exists(path))
+        string path;
+        try
         {
-            await Console.Error.WriteLineAsync($"{path}: the bench file does not exist.");
-            return 2;
+            path = Composition.BenchHost.Locate(given);
+        }
+        catch (FileNotFoundException ex)
+        {
+            await Console.Error.WriteLineAsync(ex.Message);
+            return ExitCodes.InvalidInput;
         }
 
         BenchDescription description;
@@ -106,7 +108,7 @@ internal static class SimCommand
         catch (DocumentException ex)
         {
             await Console.Error.WriteLineAsync(ex.Message);
-            return 2;
+            return ExitCodes.InvalidInput;
         }
 
         await using (simulated)
@@ -119,7 +121,7 @@ internal static class SimCommand
             catch (System.Net.Sockets.SocketException ex)
             {
                 await Console.Error.WriteLineAsync($"Cannot listen on {address} from port {port}: {ex.Message}");
-                return 3;
+                return ExitCodes.InstrumentFailure;
             }
 
             await using (tcp)
@@ -144,6 +146,6 @@ internal static class SimCommand
             }
         }
 
-        return 0;
+        return ExitCodes.Success;
     }
 }

@@ -4,7 +4,8 @@ using ShuntSweep.Simulation.Scpi;
 
 namespace ShuntSweep.Simulation.Instruments;
 
-/// <summary>The simulated reference ammeter in series with the loop (resource <c>SIM::ref</c>); its shunt is part of the circuit.</summary>
+/// <summary>The simulated reference in series with the loop (resource <c>SIM::ref</c>): a calibrated shunt that is part of the circuit, read either
+/// as an ammeter (<c>CONF:CURR</c>) or as a voltmeter across the shunt (<c>CONF:VOLT</c>), for a bench whose reference is a shunt and a voltmeter.</summary>
 internal static class ReferenceInstrument
 {
     /// <summary>Builds the reference ammeter's SCPI front on <paramref name="circuit"/>.</summary>
@@ -17,6 +18,8 @@ internal static class ReferenceInstrument
         var auto = true;
         var nplc = 1.0;
         var samples = 1;
+        var volts = false;
+        var voltRange = VoltmeterPhysics.Ranges[0];
 
         void Arm()
         {
@@ -24,13 +27,15 @@ internal static class ReferenceInstrument
             {
                 var present = Math.Abs(circuit.Present().LoopCurrent);
                 range = ranges.FirstOrDefault(r => present <= r * 1.1, ranges[^1]);
+                voltRange = VoltmeterPhysics.Ranges.FirstOrDefault(r => present * physics.Shunt <= r * 1.1, VoltmeterPhysics.Ranges[^1]);
             }
 
-            var chosen = range;
+            var chosen = volts ? voltRange : range;
+            var scale = volts ? physics.Shunt : 1;
             var integration = TimeSpan.FromSeconds(nplc / physics.LineFrequency);
             var sigma = physics.NoiseAt1Plc * chosen / Math.Sqrt(nplc);
             var resolution = chosen * 1e-7;
-            measurement.Arm(samples, integration, integration, TimeSpan.FromSeconds(physics.Overhead), op => op.LoopCurrent, i =>
+            measurement.Arm(samples, integration, integration, TimeSpan.FromSeconds(physics.Overhead), op => op.LoopCurrent * scale, i =>
             {
                 var reading = Math.Round(((i * (1 + physics.GainError)) + (sigma * random.NextGaussian())) / resolution, MidpointRounding.AwayFromZero) * resolution;
                 return Math.Abs(reading) > chosen * 1.2 ? (reading > 0 ? double.PositiveInfinity : double.NegativeInfinity) : reading;
@@ -59,7 +64,35 @@ internal static class ReferenceInstrument
                     range = ranges.First(r => r >= requested * (1 - 1e-9));
                 }
 
+                volts = false;
                 measurement.Clear();
+            })
+            .Add("CONFigure:VOLTage[:DC]", c =>
+            {
+                c.Expect(0, 2);
+                if (c.Count == 0 || c.Is(0, "AUTO"))
+                {
+                    auto = true;
+                }
+                else
+                {
+                    var requested = c.Number(0, ScpiUnit.Volt, 0, VoltmeterPhysics.Ranges[^1], 10);
+                    auto = false;
+                    voltRange = VoltmeterPhysics.Ranges.First(r => r >= requested * (1 - 1e-9));
+                }
+
+                volts = true;
+                measurement.Clear();
+            })
+            .Add("[SENSe:]VOLTage[:DC]:NPLCycles", c =>
+            {
+                c.Expect(1, 1);
+                nplc = c.Number(0, ScpiUnit.None, 0.02, 100, 1);
+            })
+            .Add("[SENSe:]ZERO:AUTO", c =>
+            {
+                c.Expect(1, 1);
+                c.Boolean(0);
             })
             .Add("[SENSe:]CURRent[:DC]:RANGe?", c => c.Reply(range))
             .Add("[SENSe:]CURRent[:DC]:NPLCycles", c =>
@@ -98,6 +131,7 @@ internal static class ReferenceInstrument
             {
                 measurement.Clear();
                 auto = true;
+                volts = false;
                 nplc = 1;
                 samples = 1;
             },

@@ -20,8 +20,9 @@ internal sealed class DemoRun : IDisposable
     /// <summary>The result written to its result.json.</summary>
     public CharacterisationResult Result { get; }
 
-    /// <summary>Copies the fixture to a new temporary folder and fits it; <paramref name="start"/> moves the run's start time.</summary>
-    public static DemoRun Create(DateTimeOffset? start = null, Func<CharacterisationResult, CharacterisationResult>? change = null)
+    /// <summary>Copies the fixture to a new temporary folder and fits it; <paramref name="start"/> moves the run's start time,
+    /// <paramref name="result"/> replaces the fit (to archive several runs without fitting each).</summary>
+    public static DemoRun Create(DateTimeOffset? start = null, CharacterisationResult? result = null)
     {
         var dir = Path.Combine(Path.GetTempPath(), "shuntsweep-report-tests", Guid.NewGuid().ToString("N"));
         System.IO.Directory.CreateDirectory(dir);
@@ -35,12 +36,7 @@ internal sealed class DemoRun : IDisposable
             (RunManifest.Read(dir) with { Start = s }).Write(dir);
         }
 
-        var uut = BenchReader.Load(Path.Combine(dir, "bench.yaml")).Uut;
-        var result = Characteriser.Analyse(JournalCsv.Read(Path.Combine(dir, "journal.csv")).Samples, uut);
-        if (change is not null)
-        {
-            result = change(result);
-        }
+        result ??= Characteriser.Analyse(JournalCsv.Read(Path.Combine(dir, "journal.csv")).Samples, BenchReader.Load(Path.Combine(dir, "bench.yaml")).Uut);
 
         ResultJson.Write(result, Path.Combine(dir, "result.json"));
         return new DemoRun(dir, result);

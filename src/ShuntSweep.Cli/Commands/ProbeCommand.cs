@@ -134,7 +134,11 @@ internal static class ProbeCommand
             var errors = await session.DrainErrorsAsync(ct);
             return new Result(target.Label, identity.ToString(), errors, trips, null);
         }
-        catch (Exception ex) when (ex is InstrumentException or FormatException)
+        catch (InstrumentException ex)
+        {
+            return new Result(target.Label, null, [], [], ex.Problem);
+        }
+        catch (FormatException ex)
         {
             return new Result(target.Label, null, [], [], ex.Message);
         }

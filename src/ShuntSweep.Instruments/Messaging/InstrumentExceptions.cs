@@ -5,10 +5,17 @@ public class InstrumentException : Exception
 {
     /// <summary>Creates an error for <paramref name="resource"/>.</summary>
     public InstrumentException(string resource, string message, Exception? inner = null)
-        : base($"{resource}: {message}", inner) => Resource = resource;
+        : base($"{resource}: {message}", inner)
+    {
+        Resource = resource;
+        Problem = message;
+    }
 
     /// <summary>The resource string of the instrument.</summary>
     public string Resource { get; }
+
+    /// <summary>What went wrong, without the resource string.</summary>
+    public string Problem { get; }
 }
 
 /// <summary>The instrument did not answer (or did not accept a command) within the allowed time.</summary>

@@ -91,91 +91,133 @@ internal static class JackDecomposer
     }
 
     /// <summary>Hypothesis: only the jack's common element heats (the shunts are manganin-like); V = V₀ᵣ + R_sh,r·I + R_c·I/(1 − β·I²)
-    /// with R_c and β shared by the jack's ranges, separable through the higher-order (I⁵) heating term.</summary>
+    /// with R_c and β shared by the jack's heating ranges, separable through the higher-order (I⁵) heating term.</summary>
+    /// <remarks>For fixed β the model is linear in (V₀ᵣ, R_sh,r, R_c), so β is found by a golden-section search of the profile χ²(β)
+    /// (one QR per trial); the covariance of all parameters then comes from the QR of the full Jacobian at the optimum.
+    /// Ranges that show no heating add nothing to R_c or β and are left out.</remarks>
     private static Separation? SharedHeating(List<RangeAnalysis> ranges, AnalysisOptions options)
     {
-        var n = ranges.Sum(r => r.Data.Current.Length);
-        var k = ranges.Count;
+        var heated = ranges.Where(r => r.Result.Model is "self-heating" or "self-heating-cubic").ToList();
+        var betaStart = heated.Select(r => r.Fits.FirstOrDefault(f => f.Succeeded && f.Model is SelfHeatingModel)?.Parameters[2] ?? 0).Max();
+        var k = heated.Count;
+        var n = heated.Sum(r => r.Data.Current.Length);
         var x = new double[n];
         var y = new double[n];
-        var w = new double[n];
+        var sw = new double[n];
         var index = new int[n];
         var o = 0;
         for (var r = 0; r < k; r++)
         {
-            var d = ranges[r].Data;
+            var d = heated[r].Data;
             for (var i = 0; i < d.Current.Length; i++, o++)
             {
                 x[o] = d.Current[i];
                 y[o] = d.Drop[i];
-                w[o] = d.Weight[i];
+                sw[o] = Math.Sqrt(d.Weight[i]);
                 index[o] = r;
             }
         }
 
-        var model = new JointHeating(k, index, x);
-        var start = new double[(2 * k) + 2];
-        double beta = 0, rc = 0;
-        var heated = ranges.Select(r => r.Fits.FirstOrDefault(f => f.Succeeded && f.Model is SelfHeatingModel)).ToList();
-        for (var r = 0; r < k; r++)
+        var imax = x.Max(Math.Abs);
+        var upper = SelfHeatingModel.MaxHeatingFraction / (imax * imax);
+        if (!(betaStart > 0) || betaStart >= upper || n <= (2 * k) + 2)
         {
-            var fit = ranges[r].Chosen;
-            start[2 * r] = fit.Parameters[0];
-            start[(2 * r) + 1] = ranges[r].Result.ResistanceOhms.Value;
-            if (heated[r] is { } h && h.Parameters[2] > 0 && (rc == 0 || h.Parameters[1] < 2 * rc))
+            return null;
+        }
+
+        var m = (2 * k) + 1;
+        double Profile(double beta, out double[] coefficients)
+        {
+            var a = new double[n * m];
+            var b = new double[n];
+            for (var i = 0; i < n; i++)
             {
-                // Start with half the range's resistance in the heating element; matching the cubic term R₀·β gives β_common = 2β.
-                rc = 0.5 * h.Parameters[1];
-                beta = 2 * h.Parameters[2];
+                var r = index[i];
+                a[((2 * r) * n) + i] = sw[i];
+                a[(((2 * r) + 1) * n) + i] = x[i] * sw[i];
+                a[((2 * k) * n) + i] = x[i] / (1 - (beta * x[i] * x[i])) * sw[i];
+                b[i] = y[i] * sw[i];
+            }
+
+            var qr = new HouseholderQr(a, n, m);
+            coefficients = qr.Solve(b);
+            var chi = 0.0;
+            for (var i = m; i < n; i++)
+            {
+                chi += b[i] * b[i];
+            }
+
+            return chi;
+        }
+
+        // Golden-section search of χ²(β) on [β_range, runaway limit): sharing the heating between fewer ohms raises β.
+        double lo = betaStart * 0.5, hi = upper;
+        var g = (Math.Sqrt(5) - 1) / 2;
+        var c1 = hi - (g * (hi - lo));
+        var c2 = lo + (g * (hi - lo));
+        var f1 = Profile(c1, out _);
+        var f2 = Profile(c2, out _);
+        for (var iter = 0; iter < 100 && hi - lo > 1e-10 * hi; iter++)
+        {
+            if (f1 < f2)
+            {
+                hi = c2;
+                (c2, f2) = (c1, f1);
+                c1 = hi - (g * (hi - lo));
+                f1 = Profile(c1, out _);
+            }
+            else
+            {
+                lo = c1;
+                (c1, f1) = (c2, f2);
+                c2 = lo + (g * (hi - lo));
+                f2 = Profile(c2, out _);
             }
         }
 
-        if (!(beta > 0))
+        var beta = 0.5 * (lo + hi);
+        if (beta >= upper * 0.999 || beta <= betaStart * 0.5 * 1.001)
+        {
+            // The optimum sits on the search edge: the data do not locate β for a shared element.
+            return null;
+        }
+
+        var chi2 = Profile(beta, out var coef);
+        var rc = coef[2 * k];
+        var jac = new double[n * (m + 1)];
+        for (var i = 0; i < n; i++)
+        {
+            var r = index[i];
+            var den = 1 - (beta * x[i] * x[i]);
+            jac[((2 * r) * n) + i] = sw[i];
+            jac[(((2 * r) + 1) * n) + i] = x[i] * sw[i];
+            jac[((2 * k) * n) + i] = x[i] / den * sw[i];
+            jac[(((2 * k) + 1) * n) + i] = rc * x[i] * x[i] * x[i] / (den * den) * sw[i];
+        }
+
+        var full = new HouseholderQr(jac, n, m + 1);
+        if (full.IsRankDeficient(1e-12) || !(rc > 0))
         {
             return null;
         }
 
-        for (var r = 0; r < k; r++)
-        {
-            start[(2 * r) + 1] -= rc;
-        }
-
-        start[2 * k] = rc;
-        start[(2 * k) + 1] = beta;
-        var imax = x.Max(Math.Abs);
-        NonlinearFit joint;
-        try
-        {
-            joint = LevenbergMarquardt.Fit(model, Enumerable.Range(0, n).Select(i => (double)i).ToArray(), y, w, start, p => p[2 * k] > 0 && p[(2 * k) + 1] * imax * imax < SelfHeatingModel.MaxHeatingFraction, 2000);
-        }
-        catch (FitFailedException)
-        {
-            return null;
-        }
+        var dof = n - (m + 1);
 
         // Absolute weights (the points' own scatter), inflated by the Birge ratio when the scatter about the joint fit is larger.
-        var s2 = joint.ChiSquare / joint.DegreesOfFreedom;
-        var m = start.Length;
-        var cov = new double[m, m];
-        for (var i = 0; i < m; i++)
-        {
-            for (var j = 0; j < m; j++)
-            {
-                cov[i, j] = joint.Covariance[i, j] / s2 * Math.Max(s2, 1);
-            }
-        }
-
-        var shunts = Enumerable.Range(0, k).ToDictionary(r => ranges[r].Result.Name, r => new Estimate(joint.Parameters[(2 * r) + 1], Math.Sqrt(cov[(2 * r) + 1, (2 * r) + 1])));
-        var rcEst = new Estimate(joint.Parameters[2 * k], Math.Sqrt(cov[2 * k, 2 * k]));
-        var betaEst = new Estimate(joint.Parameters[(2 * k) + 1], Math.Sqrt(cov[(2 * k) + 1, (2 * k) + 1]));
-        var rth = betaEst.Value / (options.FuseTemperatureCoefficient * rcEst.Value);
-        var urth = Math.Abs(rth) * Math.Sqrt(Square(betaEst.StandardUncertainty / betaEst.Value) + Square(rcEst.StandardUncertainty / rcEst.Value));
+        var inflate = Math.Max(chi2 / dof, 1);
+        var cov = full.InverseRtR();
+        double U(int j) => Math.Sqrt(cov[j, j] * inflate);
+        var shunts = Enumerable.Range(0, k).ToDictionary(r => heated[r].Result.Name, r => new Estimate(coef[(2 * r) + 1], U((2 * r) + 1)));
+        var rcEst = new Estimate(rc, U(2 * k));
+        var betaEst = new Estimate(beta, U(m));
+        var rth = beta / (options.FuseTemperatureCoefficient * rc);
+        var urth = Math.Abs(rth) * Math.Sqrt(Square(betaEst.StandardUncertainty / beta) + Square(rcEst.StandardUncertainty / rc));
         return Make(
-            "only the jack's common element (fuse) heats; shunts are temperature-stable; R_common and its heating β are shared by the jack's ranges",
+            "only the jack's common element (fuse) heats; shunts are temperature-stable; R_common and its heating β are shared by the jack's heating ranges",
             rcEst,
             shunts,
-            joint.ChiSquare,
-            joint.DegreesOfFreedom,
+            chi2,
+            dof,
             new Dictionary<string, Estimate>
             {
                 ["heatingCoefficientPerA2"] = betaEst,
@@ -204,35 +246,4 @@ internal static class JackDecomposer
     }
 
     private static double Square(double v) => v * v;
-
-    /// <summary>The joint model over all points of a jack; x is the point's index into the concatenated data.</summary>
-    private sealed class JointHeating(int ranges, int[] rangeOfPoint, double[] currents) : IModelFunction
-    {
-        public int ParameterCount => (2 * ranges) + 2;
-
-        public double Evaluate(double x, ReadOnlySpan<double> p, Span<double> gradient)
-        {
-            var i = (int)x;
-            var r = rangeOfPoint[i];
-            var current = currents[i];
-            var rc = p[2 * ranges];
-            var beta = p[(2 * ranges) + 1];
-            var den = 1 - (beta * current * current);
-            if (den <= 1 - SelfHeatingModel.MaxHeatingFraction)
-            {
-                return double.NaN;
-            }
-
-            if (!gradient.IsEmpty)
-            {
-                gradient.Clear();
-                gradient[2 * r] = 1;
-                gradient[(2 * r) + 1] = current;
-                gradient[2 * ranges] = current / den;
-                gradient[(2 * ranges) + 1] = rc * current * current * current / (den * den);
-            }
-
-            return p[2 * r] + (p[(2 * r) + 1] * current) + (rc * current / den);
-        }
-    }
 }

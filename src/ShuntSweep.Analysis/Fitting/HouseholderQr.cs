@@ -50,26 +50,18 @@ internal sealed class HouseholderQr
                 norm = -norm;
             }
 
+            var inv = 1.0 / norm;
             for (var i = k; i < rows; i++)
             {
-                _a[off + i] /= norm;
+                _a[off + i] *= inv;
             }
 
             _a[off + k] += 1.0;
+            var v = _a.AsSpan(off + k, rows - k);
             for (var j = k + 1; j < cols; j++)
             {
-                var offj = j * rows;
-                var s = 0.0;
-                for (var i = k; i < rows; i++)
-                {
-                    s += _a[off + i] * _a[offj + i];
-                }
-
-                s = -s / _a[off + k];
-                for (var i = k; i < rows; i++)
-                {
-                    _a[offj + i] += s * _a[off + i];
-                }
+                var target = _a.AsSpan((j * rows) + k, rows - k);
+                VectorOps.Axpy(-VectorOps.Dot(v, target) / _a[off + k], v, target);
             }
 
             _diag[k] = -norm;
@@ -126,18 +118,25 @@ internal sealed class HouseholderQr
                 continue;
             }
 
-            var s = 0.0;
-            for (var i = k; i < Rows; i++)
-            {
-                s += _a[off + i] * b[i];
-            }
+            var v = _a.AsSpan(off + k, Rows - k);
+            var target = b.AsSpan(k, Rows - k);
+            VectorOps.Axpy(-VectorOps.Dot(v, target) / _a[off + k], v, target);
+        }
+    }
 
-            s = -s / _a[off + k];
-            for (var i = k; i < Rows; i++)
+    /// <summary>The upper-triangular factor R of A = Q·R in the unscaled parameter units (cols × cols).</summary>
+    public double[] UpperTriangle()
+    {
+        var r = new double[Cols * Cols];
+        for (var j = 0; j < Cols; j++)
+        {
+            for (var i = 0; i <= j; i++)
             {
-                b[i] += s * _a[off + i];
+                r[(j * Cols) + i] = R(i, j) * _scale[j];
             }
         }
+
+        return r;
     }
 
     /// <summary>(RᵀR)⁻¹ in the unscaled parameter units: the unscaled covariance of the least-squares solution.</summary>
@@ -209,17 +208,9 @@ internal sealed class HouseholderQr
                 continue;
             }
 
-            var s = 0.0;
-            for (var i = k; i < Rows; i++)
-            {
-                s += _a[off + i] * b[i];
-            }
-
-            s = -s / _a[off + k];
-            for (var i = k; i < Rows; i++)
-            {
-                b[i] += s * _a[off + i];
-            }
+            var v = _a.AsSpan(off + k, Rows - k);
+            var target = b.AsSpan(k, Rows - k);
+            VectorOps.Axpy(-VectorOps.Dot(v, target) / _a[off + k], v, target);
         }
     }
 
@@ -227,11 +218,17 @@ internal sealed class HouseholderQr
 
     private double Norm(int col, int from)
     {
-        var off = col * Rows;
-        var scale = 0.0;
-        for (var i = from; i < Rows; i++)
+        var v = _a.AsSpan((col * Rows) + from, Rows - from);
+        var plain = Math.Sqrt(VectorOps.Dot(v, v));
+        if (plain > 1e-150 && plain < 1e150)
         {
-            scale = Math.Max(scale, Math.Abs(_a[off + i]));
+            return plain;
+        }
+
+        var scale = 0.0;
+        foreach (var x in v)
+        {
+            scale = Math.Max(scale, Math.Abs(x));
         }
 
         if (scale == 0)
@@ -240,10 +237,9 @@ internal sealed class HouseholderQr
         }
 
         var s = 0.0;
-        for (var i = from; i < Rows; i++)
+        foreach (var x in v)
         {
-            var v = _a[off + i] / scale;
-            s += v * v;
+            s += (x / scale) * (x / scale);
         }
 
         return scale * Math.Sqrt(s);

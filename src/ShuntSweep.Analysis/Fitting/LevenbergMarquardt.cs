@@ -1,7 +1,7 @@
 namespace ShuntSweep.Analysis.Fitting;
 
 /// <summary>Levenberg–Marquardt weighted nonlinear least squares; every step and the final covariance come from a QR factorisation.</summary>
-/// <remarks>The damped step solves min ‖J·δ − r‖² + λ‖D·δ‖² as one stacked least-squares problem [J; √λ·D] by Householder QR,
+/// <remarks>The damped step solves min ‖J·δ − r‖² + λ‖D·δ‖² as the stacked least-squares problem [R; √λ·D] (R from the Householder QR of J),
 /// so the normal equations are never formed. D holds the running maximum of the Jacobian column norms (Marquardt scaling).</remarks>
 internal static class LevenbergMarquardt
 {
@@ -50,8 +50,10 @@ internal static class LevenbergMarquardt
         var trial = new double[m];
         var rTrial = new double[n];
         var jTrial = new double[n * m];
-        var stacked = new double[(n + m) * m];
-        var rhs = new double[n + m];
+        var work = new double[n * m];
+        var qtr = new double[n];
+        var stacked = new double[2 * m * m];
+        var rhs = new double[2 * m];
         var accepted = 0;
         var smallSteps = 0;
         for (var iter = 0; iter < maxIterations; iter++)
@@ -71,19 +73,25 @@ internal static class LevenbergMarquardt
                 }
             }
 
+            // One QR of J per iteration: ‖J·δ − r‖² = ‖R·δ − (Qᵀr)₁‖² + const, so each damping trial is only a 2m × m problem.
+            Array.Copy(jac, work, jac.Length);
+            var qr = new HouseholderQr(work, n, m);
+            Array.Copy(r, qtr, n);
+            qr.ApplyQt(qtr);
+            var upper = qr.UpperTriangle();
             var improved = false;
             while (lambda < 1e16)
             {
-                var rows = n + m;
+                var rows = 2 * m;
                 Array.Clear(stacked);
                 for (var j = 0; j < m; j++)
                 {
-                    Array.Copy(jac, j * n, stacked, j * rows, n);
-                    stacked[(j * rows) + n + j] = Math.Sqrt(lambda) * d[j];
+                    Array.Copy(upper, j * m, stacked, j * rows, m);
+                    stacked[(j * rows) + m + j] = Math.Sqrt(lambda) * d[j];
                 }
 
-                Array.Copy(r, rhs, n);
-                Array.Clear(rhs, n, m);
+                Array.Copy(qtr, rhs, m);
+                Array.Clear(rhs, m, m);
                 var delta = new HouseholderQr(stacked, rows, m).Solve(rhs);
                 var stepNorm = 0.0;
                 var paramNorm = 0.0;
@@ -98,6 +106,7 @@ internal static class LevenbergMarquardt
                 if (double.IsFinite(chiTrial) && chiTrial <= chi2)
                 {
                     var relReduction = (chi2 - chiTrial) / Math.Max(chi2, double.Epsilon);
+                    var relStep = Math.Sqrt(stepNorm) / (Math.Sqrt(paramNorm) + 1e-300);
                     (p, trial) = (trial, p);
                     (r, rTrial) = (rTrial, r);
                     (jac, jTrial) = (jTrial, jac);
@@ -105,14 +114,14 @@ internal static class LevenbergMarquardt
                     lambda = Math.Max(lambda / 10, 1e-15);
                     accepted++;
                     improved = true;
-                    smallSteps = relReduction < 1e-15 || Math.Sqrt(stepNorm) <= 1e-12 * (Math.Sqrt(paramNorm) + 1e-300) ? smallSteps + 1 : 0;
+                    smallSteps = (relReduction < 1e-12 && relStep < 1e-8) || relStep < 1e-12 ? smallSteps + 1 : 0;
                     break;
                 }
 
                 lambda *= 10;
             }
 
-            if (!improved || smallSteps >= 3 || chi2 == 0)
+            if (!improved || smallSteps >= 2 || chi2 == 0)
             {
                 break;
             }

@@ -60,6 +60,7 @@ internal static class ThermalStepFitter
         }
 
         NonlinearFit? two = null;
+        var useTwo = false;
         foreach (var (fastShare, fastRatio) in new[] { (0.5, 0.2), (0.7, 0.05) })
         {
             double[] start = [one.Parameters[0], one.Parameters[1] * fastShare, one.Parameters[2] * fastRatio, one.Parameters[1] * (1 - fastShare), one.Parameters[2] * 1.5];
@@ -73,19 +74,15 @@ internal static class ThermalStepFitter
             }
             catch (FitFailedException)
             {
-                // The two-term model is not determined by these data; keep the single term.
+                // The two-term model is not determined from this start; try the next, or keep the single term.
+                continue;
             }
-        }
 
-        var useTwo = false;
-        if (two is not null)
-        {
-            var f = (one.ChiSquare - two.ChiSquare) / 2 / (two.ChiSquare / two.DegreesOfFreedom);
-            var p = 1 - MathNet.Numerics.Distributions.FisherSnedecor.CDF(2, two.DegreesOfFreedom, Math.Max(f, 0));
-            var resolved = Enumerable.Range(0, 2).All(k => Math.Abs(two.Parameters[1 + (2 * k)]) > 3 * two.StandardUncertainty(1 + (2 * k))
-                && two.Parameters[2 + (2 * k)] > 3 * two.StandardUncertainty(2 + (2 * k)));
-            var distinct = Math.Abs(Math.Log(two.Parameters[2] / two.Parameters[4])) > Math.Log(1.5);
-            useTwo = p < 0.001 && resolved && distinct;
+            useTwo = Supported(one, two);
+            if (useTwo)
+            {
+                break;
+            }
         }
 
         var fit = useTwo ? two! : one;
@@ -115,5 +112,16 @@ internal static class ThermalStepFitter
             new Estimate(fit.Parameters[0], fit.StandardUncertainty(0)),
             terms,
             fit.ResidualStdDev);
+    }
+
+    /// <summary>Two terms are kept when the F-test against one term gives p &lt; 0.001, both terms are resolved (&gt; 3 u) and their τ differ by more than 1.5×.</summary>
+    private static bool Supported(NonlinearFit one, NonlinearFit two)
+    {
+        var f = (one.ChiSquare - two.ChiSquare) / 2 / (two.ChiSquare / two.DegreesOfFreedom);
+        var p = 1 - MathNet.Numerics.Distributions.FisherSnedecor.CDF(2, two.DegreesOfFreedom, Math.Max(f, 0));
+        var resolved = Enumerable.Range(0, 2).All(k => Math.Abs(two.Parameters[1 + (2 * k)]) > 3 * two.StandardUncertainty(1 + (2 * k))
+            && two.Parameters[2 + (2 * k)] > 3 * two.StandardUncertainty(2 + (2 * k)));
+        var distinct = Math.Abs(Math.Log(two.Parameters[2] / two.Parameters[4])) > Math.Log(1.5);
+        return p < 0.001 && resolved && distinct;
     }
 }

@@ -18,7 +18,8 @@ public sealed class ConcurrentMeasurementTests
         // armed and fetched one meter after the other would wait forever for the first answer and time out.
         var integration = TimeSpan.FromMilliseconds(300);
         var events = new List<string>();
-        using var allArmed = new CountdownEvent(3);
+        var armedCount = 0;
+        var allArmed = new TaskCompletionSource(TaskCreationOptions.RunContinuationsAsynchronously);
         FakeInstrument Integrating(FakeInstrument fake, string name, string reading)
         {
             long armedAt = 0;
@@ -32,24 +33,27 @@ public sealed class ConcurrentMeasurementTests
                         events.Add($"arm {name}");
                     }
 
-                    allArmed.Signal();
+                    if (Interlocked.Increment(ref armedCount) == 3)
+                    {
+                        allArmed.SetResult();
+                    }
+
                     return Reply.None;
                 }
 
                 if (c == "FETC?")
                 {
-                    if (!allArmed.Wait(TimeSpan.FromSeconds(5), Ct))
-                    {
-                        return Reply.Line("not all meters were armed");
-                    }
-
                     var left = integration - Stopwatch.GetElapsedTime(armedAt);
                     lock (events)
                     {
                         events.Add($"fetch {name}");
                     }
 
-                    return new Reply(System.Text.Encoding.ASCII.GetBytes(reading + "\n"), left > TimeSpan.Zero ? left : TimeSpan.Zero);
+                    // The answer waits (without a thread) until all three are armed; a 5 s wait means they were not.
+                    return new Reply(System.Text.Encoding.ASCII.GetBytes(reading + "\n"), left > TimeSpan.Zero ? left : TimeSpan.Zero)
+                    {
+                        Before = () => allArmed.Task.WaitAsync(TimeSpan.FromSeconds(5), Ct),
+                    };
                 }
 
                 return null;

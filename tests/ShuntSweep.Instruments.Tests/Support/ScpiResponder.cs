@@ -7,6 +7,9 @@ namespace ShuntSweep.Instruments.Tests.Support;
 /// <summary>What the responder does with one received command: bytes to send back (maybe late, maybe split), or close the connection.</summary>
 internal sealed record Reply(byte[]? Bytes, TimeSpan Delay = default, bool Close = false)
 {
+    /// <summary>Awaited before the reply is sent (after <see cref="Delay"/>), without holding a thread.</summary>
+    public Func<Task>? Before { get; init; }
+
     public static Reply None { get; } = new((byte[]?)null);
 
     public static Reply Line(string text) => new(Encoding.ASCII.GetBytes(text + "\n"));
@@ -134,6 +137,11 @@ internal sealed class ScpiResponder : IAsyncDisposable
                     if (reply.Delay > TimeSpan.Zero)
                     {
                         await Task.Delay(reply.Delay, _stop.Token);
+                    }
+
+                    if (reply.Before is { } before)
+                    {
+                        await before();
                     }
 
                     if (reply.Bytes is { } bytes)

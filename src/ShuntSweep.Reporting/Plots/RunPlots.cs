@@ -1,5 +1,6 @@
 using System.Globalization;
 using ScottPlot;
+using ShuntSweep.Analysis.Insertion;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Analysis.Uncertainty;
 using ShuntSweep.Core.Quantities;
@@ -7,7 +8,7 @@ using ShuntSweep.Core.Records;
 
 namespace ShuntSweep.Reporting.Plots;
 
-/// <summary>Draws every plot the run's records support; each plot reads the result (and, for thermal holds, the journal) and computes nothing new.</summary>
+/// <summary>Draws every plot the run's records support; each plot reads the result (the journal for thermal holds) and evaluates curves only through the analysis, computing nothing new.</summary>
 internal static class RunPlots
 {
     /// <summary>The plots for <paramref name="run"/>, in report order; a plot whose data the result lacks is left out.</summary>
@@ -20,7 +21,7 @@ internal static class RunPlots
         {
             if (result.Ranges[i].Points.Count > 0)
             {
-                plots.Add(Drop(result.Ranges[i], i));
+                plots.Add(Drop(result.Ranges[i], i, result.DiodeTemperatureK));
             }
         }
 
@@ -46,6 +47,11 @@ internal static class RunPlots
             }
         }
 
+        if (Insertion(result) is { } insertion)
+        {
+            plots.Add(insertion);
+        }
+
         foreach (var range in result.Ranges)
         {
             if (range.ReadingError is { Count: > 0 } errors)
@@ -61,7 +67,7 @@ internal static class RunPlots
     public static string Stem(string text) =>
         string.Concat((text ?? string.Empty).Select(c => char.IsAsciiLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
 
-    private static RenderedPlot Drop(RangeResult range, int index)
+    private static RenderedPlot Drop(RangeResult range, int index, double diodeTemperatureK)
     {
         var points = range.Points.OrderBy(p => p.CurrentA).ToList();
         var xs = points.Select(p => p.CurrentA).ToArray();
@@ -73,10 +79,11 @@ internal static class RunPlots
         measured.LegendText = "measured (mean of samples)";
         var bars = top.Add.ErrorBar(xs, points.Select(p => p.DropVolts).ToArray(), u);
         bars.Color = PlotStyle.Of(index);
-        var fitted = top.Add.ScatterLine(xs, points.Select(p => p.DropVolts - p.ResidualVolts).ToArray(), PlotStyle.Fit);
+        var (curveX, curveY) = FittedCurve(range, points, diodeTemperatureK);
+        var fitted = top.Add.ScatterLine(curveX, curveY, PlotStyle.Fit);
         fitted.LineWidth = 2;
         fitted.LegendText = $"fitted: {range.Model}";
-        MarkOutliers(top, points, p => p.DropVolts);
+        MarkOutliers(top, points, p => p.DropVolts, inLegend: true);
         top.ShowLegend(Alignment.UpperLeft);
 
         var bottom = PlotStyle.Create(string.Empty, "current", SiUnit.Ampere, "residual", SiUnit.Volt);
@@ -85,7 +92,7 @@ internal static class RunPlots
         residuals.MarkerSize = 6;
         var rbars = bottom.Add.ErrorBar(xs, points.Select(p => p.ResidualVolts).ToArray(), u);
         rbars.Color = PlotStyle.Of(index);
-        MarkOutliers(bottom, points, p => p.ResidualVolts);
+        MarkOutliers(bottom, points, p => p.ResidualVolts, inLegend: false);
         bottom.Axes.Link(bottom.Axes.Bottom, top.Axes.Bottom, top);
         bottom.Axes.SetLimitsX(top.Axes.GetDataLimits().Left, top.Axes.GetDataLimits().Right);
         top.Axes.SetLimitsX(top.Axes.GetDataLimits().Left, top.Axes.GetDataLimits().Right);
@@ -98,7 +105,31 @@ internal static class RunPlots
             (bottom, 1f));
     }
 
-    private static void MarkOutliers(Plot plot, List<PointResult> points, Func<PointResult, double> y)
+    /// <summary>The chosen model's curve as the analysis evaluates it (<see cref="DropCurve"/>), on a fine grid over the fitted currents;
+    /// the fitted values at the measured points when the analysis cannot rebuild the curve.</summary>
+    private static (double[] X, double[] Y) FittedCurve(RangeResult range, List<PointResult> points, double diodeTemperatureK)
+    {
+        try
+        {
+            var curve = DropCurve.For(range, diodeTemperatureK);
+            var lo = points[0].CurrentA;
+            var hi = points[^1].CurrentA;
+            var grid = Enumerable.Range(0, 301).Select(k => lo + ((hi - lo) * k / 300.0)).ToArray();
+            var drop = grid.Select(curve.Drop).ToArray();
+            if (drop.All(double.IsFinite))
+            {
+                return (grid, drop);
+            }
+        }
+        catch (InvalidDataException)
+        {
+            // A model this build does not know: fall back to the fitted values the result holds.
+        }
+
+        return (points.Select(p => p.CurrentA).ToArray(), points.Select(p => p.DropVolts - p.ResidualVolts).ToArray());
+    }
+
+    private static void MarkOutliers(Plot plot, List<PointResult> points, Func<PointResult, double> y, bool inLegend)
     {
         var outliers = points.Where(p => p.Outlier).ToList();
         if (outliers.Count == 0)
@@ -110,7 +141,10 @@ internal static class RunPlots
         ring.MarkerShape = MarkerShape.OpenCircle;
         ring.MarkerSize = 16;
         ring.MarkerLineWidth = 2;
-        ring.LegendText = "outlier (flagged, kept)";
+        if (inLegend)
+        {
+            ring.LegendText = "outlier (flagged, kept)";
+        }
     }
 
     private static RenderedPlot AllRanges(CharacterisationResult result)
@@ -192,6 +226,68 @@ internal static class RunPlots
         return Figure.Render(
             "decomposition",
             "Each range's series resistance split into the jack's common part and the range's own shunt (the first consistent separation hypothesis of each jack); labels give the values.",
+            480,
+            (plot, 1f));
+    }
+
+    /// <summary>Insertion error against source resistance, each range in a circuit whose undisturbed current is the range's full scale,
+    /// as the analysis predicts it (<see cref="InsertionError.Predict"/>); null when no range has a usable curve.</summary>
+    private static RenderedPlot? Insertion(CharacterisationResult result)
+    {
+        var plot = PlotStyle.Create("Insertion error against source resistance (undisturbed current = full scale)", "source resistance", SiUnit.Ohm, "reading error", SiUnit.None);
+        PlotStyle.Decades(plot.Axes.Bottom, SiUnit.Ohm);
+        plot.Axes.Left.TickGenerator = new ScottPlot.TickGenerators.NumericAutomatic { LabelFormatter = v => v.ToString("0.##", CultureInfo.InvariantCulture) + " %" };
+        var drawn = 0;
+        for (var i = 0; i < result.Ranges.Count; i++)
+        {
+            var r = result.Ranges[i];
+            if (!(r.ResistanceOhms.Value > 0) || !(r.FullScaleA > 0))
+            {
+                continue;
+            }
+
+            var first = Math.Floor(Math.Log10(r.ResistanceOhms.Value)) - 1;
+            var xs = new List<double>();
+            var ys = new List<double>();
+            for (var k = 0; k <= 60; k++)
+            {
+                var decade = first + (5.0 * k / 60);
+                var ohms = Math.Pow(10, decade);
+                try
+                {
+                    var prediction = InsertionError.Predict(result, r.FullScaleA * ohms, ohms, r.Name).Ranges[0];
+                    if (double.IsFinite(prediction.RelativeError))
+                    {
+                        xs.Add(decade);
+                        ys.Add(100 * prediction.RelativeError);
+                    }
+                }
+                catch (ArgumentException)
+                {
+                    // No operating point on the fitted curve for this circuit: leave the point out.
+                }
+            }
+
+            if (xs.Count > 1)
+            {
+                var line = plot.Add.ScatterLine(xs.ToArray(), ys.ToArray(), PlotStyle.Of(i));
+                line.LineWidth = 2;
+                line.LegendText = r.Name;
+                drawn++;
+            }
+        }
+
+        if (drawn == 0)
+        {
+            plot.Dispose();
+            return null;
+        }
+
+        plot.Add.HorizontalLine(0, 1, PlotStyle.Fit);
+        plot.ShowLegend(Alignment.LowerRight);
+        return Figure.Render(
+            "insertion-error",
+            "What each range reads low by in a circuit of the given source resistance whose current without the meter would be the range's full scale, solved on the fitted drop curve by the analysis.",
             480,
             (plot, 1f));
     }

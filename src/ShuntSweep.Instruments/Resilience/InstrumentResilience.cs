@@ -67,9 +67,7 @@ internal sealed class InstrumentResilience
         var single = new ResiliencePipelineBuilder { TimeProvider = time, Name = resource }
             .AddTimeout(new TimeoutStrategyOptions { Timeout = settings.Timeout });
 
-        var breaker = settings.BreakerMinimumThroughput == int.MaxValue
-            ? ResiliencePipeline.Empty
-            : new ResiliencePipelineBuilder { TimeProvider = time, Name = resource }
+        var breaker = new ResiliencePipelineBuilder { TimeProvider = time, Name = resource }
                 .AddCircuitBreaker(new CircuitBreakerStrategyOptions
                 {
                     ShouldHandle = transient,

@@ -23,9 +23,6 @@ public sealed record ResilienceSettings(
     /// <summary>The defaults.</summary>
     public static ResilienceSettings Default { get; } = new();
 
-    /// <summary>No retries and no breaker (for probing and tests of raw behaviour).</summary>
-    public static ResilienceSettings None { get; } = new(Retries: 0, BreakerFailureRatio: 1, BreakerMinimumThroughput: int.MaxValue);
-
     /// <summary>The retry delay.</summary>
     public TimeSpan Delay => RetryDelay ?? TimeSpan.FromMilliseconds(200);
 

@@ -29,7 +29,15 @@ internal static class UsbTmcTransport
         foreach (var entry in Directory.EnumerateDirectories(sysClass, "usbtmc*").Order(StringComparer.Ordinal))
         {
             // device -> the USB interface; its parent directory is the USB device with idVendor, idProduct and serial.
-            var usbDevice = Path.Combine(entry, "device", "..");
+            // The link must be resolved first: a lexical "device/.." would just come back to the class entry.
+            var link = new DirectoryInfo(Path.Combine(entry, "device"));
+            var usbInterface = link.ResolveLinkTarget(returnFinalTarget: true)?.FullName ?? link.FullName;
+            var usbDevice = Path.GetDirectoryName(usbInterface.TrimEnd('/'));
+            if (usbDevice is null)
+            {
+                continue;
+            }
+
             if (Hex(Path.Combine(usbDevice, "idVendor")) == address.VendorId
                 && Hex(Path.Combine(usbDevice, "idProduct")) == address.ProductId
                 && (address.SerialNumber is null || string.Equals(Read(Path.Combine(usbDevice, "serial")), address.SerialNumber, StringComparison.Ordinal)))

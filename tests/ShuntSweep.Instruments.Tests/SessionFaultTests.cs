@@ -233,6 +233,29 @@ public sealed class SessionFaultTests
     }
 
     [Fact]
+    public async Task OutputOff_AfterReconnect_SkipsRestore_AndIgnoresOldQueueErrors_WhenTheStateReadsOff()
+    {
+        var port = BenchConnectorTests.FreePort();
+        var server = ScpiResponder.Start(FakeInstrument.Supply(), port);
+        await using var session = await DriverTests.OpenAsync(server, Fast(500));
+        var supply = new ScpiSupply(session, InstrumentProfile.Default, InstrumentResilience.Create(session.Resource, new ResilienceSettings(Retries: 2, RetryDelay: TimeSpan.FromMilliseconds(20)), TimeProvider.System));
+        await supply.ConfigureAsync(Voltage.FromVolts(5), Current.FromAmperes(1), Ct);
+        await supply.SetOutputAsync(true, Ct);
+
+        // The instrument restarts; now it refuses voltage settings and has an old error queued.
+        await server.DisposeAsync();
+        var after = FakeInstrument.Supply();
+        after.Checks["SOUR:VOLT"] = _ => false;
+        after.PushError(-350, "Queue overflow");
+        await using var restarted = ScpiResponder.Start(after, port);
+
+        await supply.SetOutputAsync(false, Ct);
+
+        Assert.Equal("OFF", after.State["OUTP"]);
+        Assert.False(after.State.ContainsKey("SOUR:VOLT"));
+    }
+
+    [Fact]
     public async Task ConcurrentCallersOnOneSession_NeverGetEachOthersAnswers()
     {
         var fake = FakeInstrument.Supply();

@@ -18,12 +18,12 @@ public sealed class StreamTransportTests
     public async Task StreamIgnoringCancellation_LateAnswerIsStillDiscarded_AndNothingIsLost()
     {
         var fake = FakeInstrument.Supply();
-        fake.Fault = c => c == "MEAS:VOLT?" ? new Reply("+1.000000E+00\n"u8.ToArray(), TimeSpan.FromMilliseconds(700)) : null;
+        fake.Fault = c => c == "MEAS:VOLT?" ? new Reply("+1.000000E+00\n"u8.ToArray(), TimeSpan.FromMilliseconds(650)) : null;
         fake.Queries["MEAS:CURR?"] = _ => "+3.000000E-01";
         await using var server = ScpiResponder.Start(fake);
         var client = new TcpClient("127.0.0.1", server.Port);
         var transport = new StreamTransport("SIM::supply", new DeafToCancellation(client.GetStream()));
-        await using var session = new MessageSession(transport, new SessionOptions { Timeout = TimeSpan.FromMilliseconds(400) });
+        await using var session = new MessageSession(transport, new SessionOptions { Timeout = TimeSpan.FromMilliseconds(500) });
 
         await Assert.ThrowsAsync<InstrumentTimeoutException>(async () => await session.QueryAsync("MEAS:VOLT?", null, Ct));
         var next = await session.QueryAsync("MEAS:CURR?", TimeSpan.FromSeconds(3), Ct);

@@ -63,6 +63,12 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
             repetition,
             async (attempt, ct) =>
             {
+                if (safeOff)
+                {
+                    await SwitchOffAsync(commands, what, verify, ct);
+                    return true;
+                }
+
                 await RestoreAsync(ct);
                 if (attempt > 0 && verify is not null && await verify(ct))
                 {
@@ -83,6 +89,29 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
         {
             _configuration.RemoveAll(c => c.Key == key);
             _configuration.Add((key, commands));
+        }
+    }
+
+    /// <summary>Switches an output off without first restoring configuration, and judges success by reading the state back, so that neither a failed restore nor an old error in the queue can stop it.</summary>
+    private async Task SwitchOffAsync(IReadOnlyList<string> commands, string what, Func<CancellationToken, Task<bool>>? verify, CancellationToken cancellationToken)
+    {
+        if (verify is null)
+        {
+            await SendCheckedAsync(commands, what, cancellationToken);
+            return;
+        }
+
+        foreach (var c in commands)
+        {
+            await Session.WriteAsync(c, cancellationToken);
+        }
+
+        var errors = await Session.DrainErrorsAsync(cancellationToken);
+        if (!await verify(cancellationToken))
+        {
+            throw errors.Count > 0
+                ? new InstrumentErrorException(Resource, $"{what} ({string.Join("; ", commands)}): still on", errors)
+                : new InstrumentProtocolException(Resource, $"{what}: the instrument still reports the output on.");
         }
     }
 

@@ -286,23 +286,26 @@ public sealed class Runner
             loadVolts,
             r.At - _start)).ToList();
 
-        var measured = samples.Average(s => s.Reference.Amperes);
         if (!regulating)
         {
-            if (setpoint.Amperes > 0 && Math.Abs(measured) < 0.01 * setpoint.Amperes && supplyVolts > _description.Load.MinimumVoltage)
-            {
-                throw new SafetyAbortException(
-                    $"Open circuit at {setpoint} on {step.Range}: the current collapsed to {new Current(measured)} while the supply holds {supplyVolts}. The UUT's {step.Jack} fuse has probably opened; turn everything off and check it before re-wiring.");
-            }
+            throw new SafetyAbortException(await DiagnoseLostRegulationAsync(step, setpoint, supplyVolts, loadVolts, ct));
+        }
 
-            throw new SafetyAbortException(
-                $"The load is out of regulation at {setpoint} on {step.Range} (load {loadVolts}, supply {supplyVolts}): dropout below its {_description.Load.MinimumVoltage} minimum, or the supply is in current limit.");
+        var measured = samples.Average(s => s.Reference.Amperes);
+        var range = _description.Uut.Range(step.Range);
+        if (Math.Abs(measured - setpoint.Amperes) > (0.02 * Math.Abs(setpoint.Amperes)) + (0.001 * range.FullScale.Amperes))
+        {
+            var loadOn = await _bench.Load.IsInputOnAsync(ct);
+            var supplyOn = await _bench.Supply.IsOutputOnAsync(ct);
+            var cause = !loadOn ? "the load's input is off (was it reset?)"
+                : !supplyOn ? "the supply's output is off (was it reset?)"
+                : "check the wiring and the load's mode";
+            throw new SafetyAbortException($"The loop current ({new Current(measured)}) does not follow the setpoint ({setpoint}) on {step.Range}: {cause}.");
         }
 
         foreach (var s in samples)
         {
             CheckDrop(s.Burden.Volts, step.Range);
-            var range = _description.Uut.Range(step.Range);
             if (double.IsInfinity(s.UutReading) && setpoint <= range.FullScale)
             {
                 throw new SafetyAbortException($"The UUT shows overload at {setpoint} on its {range.Name} range (full scale {range.FullScale}).");
@@ -310,6 +313,28 @@ public sealed class Runner
         }
 
         return samples;
+    }
+
+    /// <summary>Names the likely cause when the load stops regulating, from the current, the drop and the load's voltage as they are now.</summary>
+    /// <remarks>An open UUT (blown fuse) leaves almost the whole supply voltage across the UUT's jacks and none at the load;
+    /// dropout leaves the load below its minimum operating voltage; anything else is the load's own doing.</remarks>
+    private async Task<string> DiagnoseLostRegulationAsync(CurrentStep step, Current setpoint, Voltage supplyVolts, Voltage loadVolts, CancellationToken ct)
+    {
+        // The state now, not the average of the samples: a fuse may have opened part-way through the point.
+        var current = await _bench.Load.MeasureCurrentAsync(ct);
+        var drop = (await ReadTogetherAsync(Readings.Drop, ct)).Drop;
+        var collapsed = Math.Abs(current.Amperes) < 0.01 * Math.Abs(setpoint.Amperes);
+        if (collapsed && Math.Abs(drop) > 0.5 * supplyVolts.Volts)
+        {
+            return $"Open circuit at {setpoint} on {step.Range}: the current collapsed to {current} and {new Voltage(drop)} of the supply's {supplyVolts} now stands across the UUT's jacks. The UUT's {step.Jack} fuse has probably opened; turn everything off and check it before re-wiring.";
+        }
+
+        if (loadVolts < _description.Load.MinimumVoltage)
+        {
+            return $"The load is out of regulation at {setpoint} on {step.Range}: it has {loadVolts} across it, below its {_description.Load.MinimumVoltage} minimum (dropout); raise the supply voltage or lower the current.";
+        }
+
+        return $"The load is out of regulation at {setpoint} on {step.Range} with {loadVolts} across it and {current} flowing: a load fault, or the supply is in its current limit.";
     }
 
     private void CheckDrop(double drop, string range)

@@ -110,6 +110,16 @@ public sealed class RunReportTests
     }
 
     [Fact]
+    public void Write_EventLogWithATornLastLine_LeavesThatLineOut()
+    {
+        using var run = DemoRun.Create();
+        File.AppendAllText(Path.Combine(run.Directory, "events.jsonl"), "{\"time\":\"2026-03-14T09:10:00Z\",\"event\":\"fau");
+        var html = File.ReadAllText(RunReport.Write(run.Directory));
+        Assert.Contains("Run ended: Completed", html, StringComparison.Ordinal);
+        Assert.DoesNotContain("fau<", html, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Write_RunCutOffWithoutRunEnd_SaysSo()
     {
         using var run = DemoRun.Create();

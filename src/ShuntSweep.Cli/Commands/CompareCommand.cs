@@ -39,7 +39,7 @@ internal static class CompareCommand
                 AnsiConsole.Write(table);
                 if (parse.GetValue(junitOpt) is { } junit)
                 {
-                    JUnitReport.Write(report, junit, $"{Path.GetFileName(Path.GetDirectoryName(resultPath))}/result.json against golden", TimeProvider.System.GetUtcNow());
+                    JUnitReport.Write(report, junit, $"{resultPath} against {goldenPath}", TimeProvider.System.GetUtcNow());
                     AnsiConsole.MarkupLineInterpolated($"JUnit XML: {junit}");
                 }
 

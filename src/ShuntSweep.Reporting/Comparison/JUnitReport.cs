@@ -1,4 +1,6 @@
 using System.Globalization;
+using System.Text;
+using System.Xml;
 using System.Xml.Linq;
 
 namespace ShuntSweep.Reporting.Comparison;
@@ -41,7 +43,7 @@ public static class JUnitReport
             new XElement("testsuites", new XAttribute("name", "shuntsweep compare"), new XAttribute("tests", tests), new XAttribute("failures", failures), suite));
     }
 
-    /// <summary>Writes the JUnit XML of <paramref name="report"/> to <paramref name="path"/>, creating its folder.</summary>
+    /// <summary>Writes the JUnit XML of <paramref name="report"/> to <paramref name="path"/> (UTF-8 without a byte-order mark), creating its folder.</summary>
     public static void Write(ComparisonReport report, string path, string suiteName, DateTimeOffset timestamp)
     {
         ArgumentNullException.ThrowIfNull(path);
@@ -51,6 +53,8 @@ public static class JUnitReport
             Directory.CreateDirectory(folder);
         }
 
-        Build(report, suiteName, timestamp).Save(full);
+        var settings = new XmlWriterSettings { Encoding = new UTF8Encoding(false), Indent = true };
+        using var writer = XmlWriter.Create(full, settings);
+        Build(report, suiteName, timestamp).Save(writer);
     }
 }

@@ -72,6 +72,23 @@ public sealed class ResultComparerTests : IClassFixture<ResultComparerTests.Gold
         Assert.Equal(xml.Root.Elements().Count(), reparsed.Root!.Elements().Count());
     }
 
+    [Fact]
+    public void JUnit_Write_IsUtf8WithoutByteOrderMark()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"shuntsweep-junit-{Guid.NewGuid():N}.xml");
+        try
+        {
+            JUnitReport.Write(ResultComparer.Compare(_golden, _golden, CompareTolerance.Default), path, "same", DateTimeOffset.UnixEpoch);
+            var bytes = File.ReadAllBytes(path);
+            Assert.Equal((byte)'<', bytes[0]); // no EF BB BF: some CI parsers reject a BOM before the XML declaration (common practice, no source)
+            Assert.Equal("0", (string?)XDocument.Load(path).Root!.Attribute("failures"));
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+
     [Theory]
     [InlineData("0.5%", 0.005)]
     [InlineData("2 %", 0.02)]

@@ -68,17 +68,17 @@ public static class InsertionError
         ArgumentNullException.ThrowIfNull(result);
         if (!double.IsFinite(sourceVolts))
         {
-            throw new ArgumentException("The source voltage must be a finite number.", nameof(sourceVolts));
+            throw new ArgumentException("The source voltage must be a finite number.");
         }
 
         if (!(sourceOhms > 0) || !double.IsFinite(sourceOhms))
         {
-            throw new ArgumentException($"The source resistance must be above zero (got {sourceOhms:G6} Ω): the undisturbed current V/R must exist.", nameof(sourceOhms));
+            throw new ArgumentException($"The source resistance must be above zero (got {sourceOhms:G6} Ω): the undisturbed current V/R must exist.");
         }
 
         if (minimumVolts is { } mv && (!double.IsFinite(mv) || mv < 0))
         {
-            throw new ArgumentException("The minimum voltage must be zero or more.", nameof(minimumVolts));
+            throw new ArgumentException("The minimum voltage must be zero or more.");
         }
 
         var undisturbed = sourceVolts / sourceOhms;
@@ -95,12 +95,12 @@ public static class InsertionError
         ArgumentNullException.ThrowIfNull(result);
         if (!double.IsFinite(readingA))
         {
-            throw new ArgumentException("The reading must be a finite number of amperes.", nameof(readingA));
+            throw new ArgumentException("The reading must be a finite number of amperes.");
         }
 
         if (!(sourceOhms > 0) || !double.IsFinite(sourceOhms))
         {
-            throw new ArgumentException($"The source resistance must be above zero (got {sourceOhms:G6} Ω).", nameof(sourceOhms));
+            throw new ArgumentException($"The source resistance must be above zero (got {sourceOhms:G6} Ω).");
         }
 
         var curve = DropCurve.For(result, range);

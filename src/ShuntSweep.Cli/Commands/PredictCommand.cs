@@ -98,7 +98,7 @@ internal static class PredictCommand
             var notes = new List<string>();
             if (p.BelowMinimum)
             {
-                notes.Add("[red]rail below minimum[/]");
+                notes.Add("[red]rail < min[/]");
             }
 
             if (p.Overload)
@@ -108,7 +108,7 @@ internal static class PredictCommand
 
             if (p.Extrapolated)
             {
-                notes.Add("[yellow]beyond fitted currents[/]");
+                notes.Add("[yellow]extrapolated[/]");
             }
 
             table.AddRow(

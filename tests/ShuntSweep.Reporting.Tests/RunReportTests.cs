@@ -26,6 +26,10 @@ public sealed class RunReportTests
         Assert.Contains("SIM-DMM-65", html, StringComparison.Ordinal);
         Assert.Contains("CAT II 600 V", html, StringComparison.Ordinal);
         Assert.Contains("ILAC-G8", html, StringComparison.Ordinal);
+        if (run.Result.Ranges.Any(r => r.Correlation is { Count: > 1 }))
+        {
+            Assert.Contains("Correlation of the parameter estimates", html, StringComparison.Ordinal);
+        }
     }
 
     [Fact]

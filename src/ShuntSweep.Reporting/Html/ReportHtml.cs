@@ -201,6 +201,12 @@ internal static class ReportHtml
             html.Append(CultureInfo.InvariantCulture, $"<h3>Fitted parameters of {E(r.Name)} ({E(r.Model)})</h3>");
             Table(html, "data", ["parameter", "value", "standard uncertainty", "unit", "meaning"],
                 r.Parameters!.Select(p => (IReadOnlyList<string>)[E(p.Name), E(N(p.Value, "G6")), E(N(p.StandardUncertainty, "G3")), E(p.Unit), E(p.Meaning)]));
+            if (r.Correlation is { Count: > 1 } correlation && correlation.Count == r.Parameters!.Count)
+            {
+                html.Append("<p class=\"note\">Correlation of the parameter estimates:</p>");
+                Table(html, "data", ["", .. r.Parameters!.Select(p => p.Name)],
+                    correlation.Select((row, i) => (IReadOnlyList<string>)[E(r.Parameters![i].Name), .. row.Select(c => E(N(c, "0.000")))]));
+            }
         }
 
         html.Append("</section>\n");

@@ -96,7 +96,7 @@ internal static class SimulationReader
             reference = new ReferencePhysics(
                 Identity(r, "ShuntSweep,SIM-REF,REF-0001,1.0"),
                 r?.QuantityOr("shunt", SiUnit.Ohm, 0.01) ?? 0.01,
-                r?.QuantityOr("noiseAt1Plc", SiUnit.None, 2e-6) ?? 2e-6,
+                r?.QuantityOr("noiseAt1Plc", SiUnit.None, 0.5e-6) ?? 0.5e-6,
                 r?.QuantityOr("gainError", SiUnit.None, 0) ?? 0,
                 r?.QuantityOr("overhead", SiUnit.Second, 0.002) ?? 0.002,
                 line);

@@ -93,7 +93,7 @@ internal static class JackDecomposer
     /// <summary>Hypothesis: only the jack's common element heats (the shunts are manganin-like); V = V₀ᵣ + R_sh,r·I + R_c·I/(1 − β·I²)
     /// with R_c and β shared by the jack's heating ranges, separable through the higher-order (I⁵) heating term.</summary>
     /// <remarks>For fixed β the model is linear in (V₀ᵣ, R_sh,r, R_c), so β is found by a golden-section search of the profile χ²(β)
-    /// (one QR per trial); the covariance of all parameters then comes from the QR of the full Jacobian at the optimum.
+    /// (the β-free columns factored once by QR); the covariance of all parameters then comes from the QR of the full Jacobian at the optimum.
     /// Ranges that show no heating add nothing to R_c or β and are left out.</remarks>
     private static Separation? SharedHeating(List<RangeAnalysis> ranges, AnalysisOptions options)
     {
@@ -150,28 +150,62 @@ internal static class JackDecomposer
             return chi;
         }
 
-        // Golden-section search of χ²(β) on [β_range, runaway limit): sharing the heating between fewer ohms raises β.
+        // The per-range columns (V₀ᵣ, R_sh,r) do not depend on β: factor them once, then each trial only projects the R_c column,
+        // χ²(β) = ‖P⊥b‖² − (cᵀP⊥b)²/‖P⊥c‖² with c = I/(1 − β·I²).
+        var fixedCols = new double[n * 2 * k];
+        var wb = new double[n];
+        for (var i = 0; i < n; i++)
+        {
+            var r = index[i];
+            fixedCols[((2 * r) * n) + i] = sw[i];
+            fixedCols[(((2 * r) + 1) * n) + i] = x[i] * sw[i];
+            wb[i] = y[i] * sw[i];
+        }
+
+        var fixedQr = new HouseholderQr(fixedCols, n, 2 * k);
+        fixedQr.ApplyQt(wb);
+        var column = new double[n];
+        double Chi(double beta)
+        {
+            for (var i = 0; i < n; i++)
+            {
+                column[i] = x[i] / (1 - (beta * x[i] * x[i])) * sw[i];
+            }
+
+            fixedQr.ApplyQt(column);
+            double bb = 0, cb = 0, cc = 0;
+            for (var i = 2 * k; i < n; i++)
+            {
+                bb += wb[i] * wb[i];
+                cb += column[i] * wb[i];
+                cc += column[i] * column[i];
+            }
+
+            return cc > 0 ? bb - (cb * cb / cc) : bb;
+        }
+
+        // Golden-section search of χ²(β) on [β_range/2, runaway limit): sharing the heating between fewer ohms raises β.
         double lo = betaStart * 0.5, hi = upper;
         var g = (Math.Sqrt(5) - 1) / 2;
         var c1 = hi - (g * (hi - lo));
         var c2 = lo + (g * (hi - lo));
-        var f1 = Profile(c1, out _);
-        var f2 = Profile(c2, out _);
-        for (var iter = 0; iter < 100 && hi - lo > 1e-10 * hi; iter++)
+        var f1 = Chi(c1);
+        var f2 = Chi(c2);
+        for (var iter = 0; iter < 100 && hi - lo > 1e-9 * hi; iter++)
         {
             if (f1 < f2)
             {
                 hi = c2;
                 (c2, f2) = (c1, f1);
                 c1 = hi - (g * (hi - lo));
-                f1 = Profile(c1, out _);
+                f1 = Chi(c1);
             }
             else
             {
                 lo = c1;
                 (c1, f1) = (c2, f2);
                 c2 = lo + (g * (hi - lo));
-                f2 = Profile(c2, out _);
+                f2 = Chi(c2);
             }
         }
 

@@ -53,5 +53,5 @@ internal static class PlotStyle
         };
     }
 
-    private static string Tick(double v, SiUnit unit) => Math.Abs(v) < 1e-15 ? "0" : QuantityFormatter.Format(v, unit, 3);
+    private static string Tick(double v, SiUnit unit) => Math.Abs(v) < 1e-15 ? "0" : QuantityFormatter.Format(v, unit, 6);
 }

@@ -1,4 +1,5 @@
 using System.IO.Ports;
+using System.Text.RegularExpressions;
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Documents;
 using ShuntSweep.Core.Quantities;
@@ -19,7 +20,7 @@ public sealed record SerialSettings(int Baud = 9600, Parity Parity = Parity.None
 /// <param name="Pattern">A regular expression with a group <c>value</c> and optionally a group <c>unit</c> (A, mA, uA, µA, nA).</param>
 /// <param name="Overload">A regular expression that, matching a line, means the display shows overload (for example <c>^ *OL\b</c>); null when none.</param>
 /// <param name="ReadingInterval">How often the UUT sends a reading; a fetch waits for the first line after the arm.</param>
-public sealed record StreamedReadingSettings(System.Text.RegularExpressions.Regex Pattern, System.Text.RegularExpressions.Regex? Overload, TimeSpan ReadingInterval);
+public sealed record StreamedReadingSettings(Regex Pattern, Regex? Overload, TimeSpan ReadingInterval);
 
 /// <summary>The reference shunt a voltmeter reads across when the reference current is taken as V / R.</summary>
 /// <param name="Resistance">The shunt's calibrated value.</param>
@@ -183,11 +184,11 @@ public sealed record DriverSettings(
         return new SerialSettings(baud, parity, dataBits, stopBits, flow);
     }
 
-    private static System.Text.RegularExpressions.Regex Pattern(NodeReader node)
+    private static Regex Pattern(NodeReader node)
     {
         try
         {
-            return new System.Text.RegularExpressions.Regex(node.AsString(), System.Text.RegularExpressions.RegexOptions.CultureInvariant, TimeSpan.FromMilliseconds(100));
+            return new Regex(node.AsString(), RegexOptions.CultureInvariant, TimeSpan.FromMilliseconds(100));
         }
         catch (ArgumentException ex)
         {

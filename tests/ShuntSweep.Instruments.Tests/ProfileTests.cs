@@ -77,6 +77,7 @@ public sealed class ProfileTests
     [InlineData("profile: x\nsupply:\n  setVoltage: \"V {volts}\"\n", "placeholder other than {value}")]
     [InlineData("supply:\n  setVoltage: \"V {value}\"\n", "'profile' is required")]
     [InlineData("profile: x\nextra: 1\n", "unknown key 'extra'")]
+    [InlineData("profile: x\nload:\n  regulationLostMask: \"bit one\"\n", "bit value as a whole number")]
     public void BadProfileFile_IsRejectedWithPosition(string text, string expected)
     {
         var ex = Assert.Throws<DocumentException>(() => InstrumentProfile.Parse(text, "bad.yaml", InstrumentProfile.Default));

@@ -8,14 +8,14 @@ namespace ShuntSweep.Instruments.Drivers;
 /// <summary>A UUT with a SCPI remote interface: the range is selected by its full scale, readings are armed and fetched.</summary>
 internal sealed class ScpiUutMeter : ScpiTriggeredMeter, IUutMeter
 {
+    private readonly double _nplc;
+
     public ScpiUutMeter(MessageSession session, InstrumentProfile profile, MeterTiming timing, double nplc, InstrumentResilience? resilience = null)
         : base(session, profile, "uut", timing, resilience)
     {
         _nplc = nplc;
         SetIntegration(nplc, 1);
     }
-
-    private readonly double _nplc;
 
     /// <summary>Sets the UUT's integration time from the bench file, where its profile can.</summary>
     public Task ApplyNplcAsync(CancellationToken cancellationToken) =>

@@ -104,6 +104,11 @@ public sealed class InstrumentProfile
                         CheckTemplate(t, n, key);
                     }
 
+                    if (key == "load.regulationLostMask" && templates is not [""] && (templates.Length != 1 || !int.TryParse(templates[0], System.Globalization.NumberStyles.None, System.Globalization.CultureInfo.InvariantCulture, out _)))
+                    {
+                        throw n.Error($"{key}: expected the bit value as a whole number, for example \"2\" for bit 1.");
+                    }
+
                     commands[key] = templates.Where(t => t.Length > 0).ToArray();
                 }
                 else if (fallback is not null)

@@ -308,8 +308,7 @@ internal sealed class BenchCircuit
             var range = Uut.Selected;
             var fuse = range.Jack.Fuse;
             var settled = (fuse.IsOpen || Math.Abs(fuse.Element.Rise - fuse.Element.SteadyRise(op.UutCurrent * op.UutCurrent * fuse.Element.Resistance)) < 1e-6)
-                && range.FrontEnd.IsSettled(op.ShuntVoltage)
-                && OthersCool();
+                && range.FrontEnd.IsSettled(op.ShuntVoltage);
             var tau = Math.Min(fuse.IsOpen ? double.PositiveInfinity : fuse.Element.TimeConstant, range.FrontEnd.ShortestTimeConstant);
             var step = settled || double.IsPositiveInfinity(tau) ? (end - _time).TotalSeconds : Math.Min((end - _time).TotalSeconds, tau / 40);
             var next = step >= (end - _time).TotalSeconds ? end : _time + TimeSpan.FromTicks(Math.Max(1, (long)(step * TimeSpan.TicksPerSecond)));
@@ -337,16 +336,13 @@ internal sealed class BenchCircuit
         }
     }
 
-    private bool OthersCool() =>
-        Uut.Jacks.All(j => j == Uut.Selected.Jack || j.Fuse.Element.Rise < 1e-6)
-        && IdleParts(Uut.Selected).All(p => p.Rise < 1e-6);
-
     private IEnumerable<ThermalElement> IdleParts(UutRange selected)
     {
         var active = selected.FrontEnd.Parts;
         return Uut.Ranges.SelectMany(r => r.FrontEnd.Parts).Distinct().Where(p => !active.Contains(p));
     }
 
+    /// <summary>Lets the parts that carry no current cool; with no power the exponential step is exact for any length of step.</summary>
     private void CoolIdleParts(UutRange selected, double dt)
     {
         foreach (var j in Uut.Jacks)

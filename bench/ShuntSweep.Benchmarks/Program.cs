@@ -1,6 +1,3 @@
 using BenchmarkDotNet.Running;
 
-internal static class Program
-{
-    private static void Main(string[] args) => BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
-}
+BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);

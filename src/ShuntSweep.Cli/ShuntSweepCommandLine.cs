@@ -13,5 +13,12 @@ internal static class ShuntSweepCommandLine
             RunCommand.Create(),
             PlanCommand.Create(),
             FitCommand.Create(),
+            PredictCommand.Create(),
+            CorrectCommand.Create(),
+            ReportCommand.Create(),
+            HistoryCommand.Create(),
+            CompareCommand.Create(),
+            ProbeCommand.Create(),
+            SimCommand.Create(),
         };
 }

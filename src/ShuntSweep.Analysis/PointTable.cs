@@ -25,10 +25,6 @@ internal sealed record MeasuredPoint(
 /// <summary>Groups samples into points (one per range and step) and derives each point's fit weight from its scatter.</summary>
 internal static class PointTable
 {
-    /// <summary>Reduces the samples of one range to points, ordered by step.</summary>
-    public static List<MeasuredPoint> Reduce(IEnumerable<Sample> samples) =>
-        samples.GroupBy(s => s.Step).OrderBy(g => g.Key).Select(g => Reduce(g.Key, g.ToList())).ToList();
-
     /// <summary>Reduces the samples of one step to a point.</summary>
     public static MeasuredPoint Reduce(int step, IReadOnlyList<Sample> samples)
     {

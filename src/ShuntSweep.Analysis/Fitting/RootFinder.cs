@@ -107,17 +107,4 @@ internal static class RootFinder
 
         return b;
     }
-
-    /// <summary>Finds the root of an increasing f on [lo, ∞) by doubling the upper end until it brackets, then Brent.</summary>
-    public static double BrentExpanding(Func<double, double> f, double lo, double hi, int maxDoublings = 200)
-    {
-        ArgumentNullException.ThrowIfNull(f);
-        for (var k = 0; k < maxDoublings && f(hi) < 0; k++)
-        {
-            lo = hi;
-            hi *= 2;
-        }
-
-        return Brent(f, lo, hi);
-    }
 }

@@ -10,14 +10,7 @@ internal sealed class ClampDiodeModel : IDropModel
 {
     private readonly double _vt;
 
-    public ClampDiodeModel(double temperatureKelvin)
-    {
-        TemperatureKelvin = temperatureKelvin;
-        _vt = PhysicalConstants.ThermalVoltage(temperatureKelvin);
-    }
-
-    /// <summary>The diode temperature used for V_T.</summary>
-    public double TemperatureKelvin { get; }
+    public ClampDiodeModel(double temperatureKelvin) => _vt = PhysicalConstants.ThermalVoltage(temperatureKelvin);
 
     public string Name => "clamp-diodes";
 

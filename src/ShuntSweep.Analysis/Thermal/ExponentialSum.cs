@@ -6,9 +6,7 @@ namespace ShuntSweep.Analysis.Thermal;
 /// <remarks>Parameters: V∞, then (Aₖ, τₖ) per term; τ in seconds, A and V∞ in volts.</remarks>
 internal sealed class ExponentialSum(int terms) : IModelFunction
 {
-    public int Terms { get; } = terms;
-
-    public int ParameterCount => 1 + (2 * Terms);
+    public int ParameterCount => 1 + (2 * terms);
 
     public double Evaluate(double x, ReadOnlySpan<double> p, Span<double> gradient)
     {
@@ -18,7 +16,7 @@ internal sealed class ExponentialSum(int terms) : IModelFunction
             gradient[0] = 1;
         }
 
-        for (var k = 0; k < Terms; k++)
+        for (var k = 0; k < terms; k++)
         {
             var a = p[1 + (2 * k)];
             var tau = p[2 + (2 * k)];

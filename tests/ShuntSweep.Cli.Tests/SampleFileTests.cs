@@ -30,8 +30,15 @@ public sealed class SampleFileTests
         var plan = Planner.Plan(SequenceReader.Load(path), BenchReader.Load(benchFile));
         Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
         var dir = Testing.Some.TempDirectory();
-        Assert.Equal(0, await Cli.RunAsync("run", path, "--bench", benchFile, "--out", dir));
+        Assert.Equal(ExpectedExit(path), await Cli.RunAsync("run", path, "--bench", benchFile, "--out", dir));
         Assert.True(File.Exists(Path.Combine(dir, "result.json")));
+    }
+
+    /// <summary>A fault demo states the exit code it must end with in a comment line <c># expect-exit: N</c>; 0 otherwise.</summary>
+    private static int ExpectedExit(string sequence)
+    {
+        var line = File.ReadLines(sequence).FirstOrDefault(l => l.StartsWith("# expect-exit:", StringComparison.Ordinal));
+        return line is null ? 0 : int.Parse(line["# expect-exit:".Length..].Trim(), System.Globalization.CultureInfo.InvariantCulture);
     }
 
     /// <summary>A sequence names its bench in a leading comment line <c># bench: simulators/x.yaml</c>; the default bench otherwise.</summary>

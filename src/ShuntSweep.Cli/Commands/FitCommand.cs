@@ -53,8 +53,8 @@ internal static class FitCommand
     /// <summary>Prints one row per range: model, resistance ± expanded uncertainty, offset, burden at full scale.</summary>
     public static void ShowRanges(CharacterisationResult result)
     {
-        var table = new Table().Title("Characterisation per range")
-            .AddColumns("range", "jack", "full scale", "model", "R (U, k=2)", "offset", "burden @ FS", "resid. SD", "points");
+        var table = new Table().Title("Characterisation per range").Expand()
+            .AddColumns("range", "jack", "FS", "model", "R ± U (k=2)", "offset", "drop @ FS", "points");
         foreach (var r in result.Ranges)
         {
             table.AddRow(
@@ -63,9 +63,8 @@ internal static class FitCommand
                 new Current(r.FullScaleA).ToString(),
                 Markup.Escape(r.Model),
                 $"{QuantityFormatter.Format(r.ResistanceOhms.Value, SiUnit.Ohm, 6)} ± {QuantityFormatter.Format(2 * r.ResistanceOhms.StandardUncertainty, SiUnit.Ohm, 2)}",
-                QuantityFormatter.Format(r.OffsetVolts.Value, SiUnit.Volt, 3),
+                QuantityFormatter.Format(r.OffsetVolts.Value, SiUnit.Volt, 2),
                 QuantityFormatter.Format(r.BurdenAtFullScaleVolts, SiUnit.Volt, 4),
-                QuantityFormatter.Format(r.ResidualStdDevVolts, SiUnit.Volt, 2),
                 r.Points.Count.ToString(CultureInfo.InvariantCulture));
         }
 

@@ -11,6 +11,8 @@ using ShuntSweep.Engine.Journal;
 using ShuntSweep.Engine.Planning;
 using ShuntSweep.Engine.Running;
 using ShuntSweep.Engine.Sequences;
+using ShuntSweep.Reporting;
+using ShuntSweep.Reporting.Archive;
 using Spectre.Console;
 
 namespace ShuntSweep.Cli.Commands;
@@ -26,16 +28,17 @@ internal static class RunCommand
         var seedOpt = new Option<int>("--seed") { Description = "The seed of the simulated bench.", DefaultValueFactory = _ => 1 };
         var answersOpt = new Option<string?>("--answers") { Description = "Answers to operator prompts for unattended runs (prompt id: done|abort, otherwise: done|abort)." };
         var resumeOpt = new Option<string?>("--resume") { Description = "Continue the interrupted run in this directory after its last completed step." };
+        var archiveOpt = new Option<string?>("--archive") { Description = $"Where the run is archived: an SQLite file, or a PostgreSQL connection string (default: ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath})." };
         var command = new Command("run", "Run a sequence on a bench, journal every sample, then fit and report.")
         {
-            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt,
+            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt,
         };
         command.SetAction((parse, ct) => Terminal.GuardAsync(() => ExecuteAsync(
-            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), ct)));
+            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt), ct)));
         return command;
     }
 
-    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, CancellationToken ct)
+    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, CancellationToken ct)
     {
         RunManifest? previous = null;
         if (resume is not null)
@@ -72,7 +75,7 @@ internal static class RunCommand
 
         if (!bench.IsSimulated)
         {
-            foreach (var note in Terminal.SafetyNotes)
+            foreach (var note in ShuntSweep.Reporting.SafetyNotes.General)
             {
                 AnsiConsole.MarkupLineInterpolated($"[yellow]caution:[/] {note}");
             }
@@ -181,6 +184,17 @@ internal static class RunCommand
             FitCommand.ShowRanges(result);
             AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
         }
+
+        // The report and the archive record whatever the run got, also after an abort: the as-found record matters most then.
+        // They run after the outputs are off and must not be interrupted half-way by the Ctrl-C that ended the run.
+        var report = RunReport.Write(outDir);
+        var location = ArchiveLocation.Resolve(archive);
+        await using (var store = await location.OpenAsync(cancellationToken: CancellationToken.None))
+        {
+            await store.RecordRunAsync(outDir, CancellationToken.None);
+        }
+
+        AnsiConsole.MarkupLineInterpolated($"Report: {report}. Archived in {location.Display}.");
 
         return outcome.End switch
         {

@@ -6,16 +6,6 @@ namespace ShuntSweep.Cli.Composition;
 /// <summary>How commands report errors and safety notes to the person at the terminal.</summary>
 internal static class Terminal
 {
-    /// <summary>The cautions shown before any run that drives a real bench, and in the README and report.</summary>
-    public static readonly string[] SafetyNotes =
-    [
-        "Leads, UUT and jacks must be rated for the current and measurement category used.",
-        "Turn the supply output and load input off before re-wiring.",
-        "Never exceed a range's fuse rating; a fuse that opens leaves the full supply voltage across the UUT's jacks.",
-        "Shunts and fuses get hot at amperes; let them cool before touching.",
-        "Mains-powered instruments: follow local codes and licensed practice.",
-    ];
-
     /// <summary>Writes an error message (file:line:col for bad input) in red and returns <paramref name="exitCode"/>.</summary>
     public static int Fail(string message, int exitCode)
     {

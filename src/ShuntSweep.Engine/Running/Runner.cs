@@ -115,18 +115,19 @@ public sealed class Runner
         await _bench.Supply.SetOutputAsync(false, ct);
         await _bench.Supply.ConfigureAsync(_description.Supply.Voltage, _description.Supply.CurrentLimit, ct);
         await _bench.Load.SetConstantCurrentAsync(Current.Zero, ct);
-        if (_bench.Reference is { } reference)
-        {
-            var max = _plan.Steps.OfType<MeasureStep>().Select(s => s.Setpoint.Abs())
-                .Concat(_plan.Steps.OfType<HoldStep>().Select(h => h.Setpoint.Abs()))
-                .DefaultIfEmpty(Current.Zero).Max();
-            await reference.ConfigureAsync(max, FirstNplc(), ct);
-        }
     }
 
-    private double FirstNplc() =>
-        _plan.Steps.Select(s => s switch { MeasureStep m => m.Settings.Nplc, HoldStep h => h.Settings.Nplc, _ => double.NaN })
-            .FirstOrDefault(n => !double.IsNaN(n), 1);
+    /// <summary>The largest current the plan sets on <paramref name="range"/>, so that the reference ammeter can take its most sensitive range that carries it.</summary>
+    private Current LargestCurrentOn(string range) =>
+        _plan.Steps.OfType<CurrentStep>().Where(s => s.Range == range)
+            .SelectMany(s => s switch
+            {
+                MeasureStep m => [m.Setpoint.Abs()],
+                HoldStep h => [h.Setpoint.Abs()],
+                RampStep r => new[] { r.From.Abs(), r.To.Abs() },
+                _ => [],
+            })
+            .DefaultIfEmpty(Current.Zero).Max();
 
     private async Task<IReadOnlyList<Sample>> ExecuteAsync(PlanStep step, bool record, CancellationToken ct)
     {
@@ -165,7 +166,8 @@ public sealed class Runner
 
     private async Task EnterRangeAsync(string range, double nplc, CancellationToken ct)
     {
-        if (range != _range)
+        var rangeChanged = range != _range;
+        if (rangeChanged)
         {
             if (_bench.UutMeter is { } uut)
             {
@@ -176,9 +178,14 @@ public sealed class Runner
             _range = range;
         }
 
-        if (nplc != _nplc)
+        if (nplc != _nplc || rangeChanged)
         {
             await _bench.DropMeter.ConfigureAsync(new VoltmeterSettings(null, nplc, true, 1), ct);
+            if (_bench.Reference is { } reference)
+            {
+                await reference.ConfigureAsync(LargestCurrentOn(range), nplc, ct);
+            }
+
             _nplc = nplc;
         }
 
@@ -293,7 +300,9 @@ public sealed class Runner
 
         var measured = samples.Average(s => s.Reference.Amperes);
         var range = _description.Uut.Range(step.Range);
-        if (Math.Abs(measured - setpoint.Amperes) > (0.02 * Math.Abs(setpoint.Amperes)) + (0.001 * range.FullScale.Amperes))
+        // A load's own error at small currents is large (an offset of microamperes is common), so only a loop current that has
+        // left the setpoint by half of it, and by a percent of full scale, counts as not following it.
+        if (Math.Abs(measured - setpoint.Amperes) > Math.Max(0.5 * Math.Abs(setpoint.Amperes), 0.01 * range.FullScale.Amperes))
         {
             var loadOn = await _bench.Load.IsInputOnAsync(ct);
             var supplyOn = await _bench.Supply.IsOutputOnAsync(ct);

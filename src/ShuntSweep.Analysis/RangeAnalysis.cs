@@ -55,6 +55,8 @@ internal sealed class RangeAnalysis
             candidates.RemoveAll(m => m is OhmicModel);
         }
 
+        // A model needs at least one degree of freedom left over to be judged at all.
+        candidates.RemoveAll(m => m.ParameterCount >= data.Current.Length);
         var fits = candidates.Select(m => DropFitter.Fit(m, data)).ToList();
         var (chosen, runnerUp) = DropFitter.Choose(fits, options.ModelSignificance);
         var w = data.Weight;

@@ -10,6 +10,7 @@ internal static class DropModels
         new AmplifiedShuntModel(),
         new SelfHeatingModel(),
         new SelfHeatingCubicModel(),
+        new HeatedElementModel(),
         new FeedbackKneeModel(),
         new ClampDiodeModel(diodeTemperatureKelvin),
     ];

@@ -32,8 +32,9 @@ internal static class Terminal
         {
             return Fail(ex.Message, ExitCodes.InvalidInput);
         }
-        catch (FormatException ex)
+        catch (Exception ex) when (ex is FormatException or ArgumentException or InvalidDataException or KeyNotFoundException)
         {
+            // Bad data inside a well-formed file (too few points in a range, an unknown range name, a malformed result.json).
             return Fail(ex.Message, ExitCodes.InvalidInput);
         }
     }

@@ -57,7 +57,7 @@ public sealed class FaultRunTests
     [InlineData("dropConnection", "dmm", "")]
     [InlineData("truncatedReply", "dmm", "")]
     [InlineData("garbledByte", "ref", "")]
-    [InlineData("lateReply", "uut", ", delay: 30 s")]
+    [InlineData("lateReply", "uut", ", delay: 3 s")]
     public async Task CommunicationFault_EitherRecoversOrFails_NeverLosingAPoint(string kind, string instrument, string extra)
     {
         var run = await SimulatedRun.RunAsync(SimulatedRun.BenchWithFaults($"{{ kind: {kind}, instrument: {instrument}, afterCommands: 25{extra} }}"));

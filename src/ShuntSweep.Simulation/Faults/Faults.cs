@@ -62,7 +62,10 @@ internal sealed class LateReplyFault(string instrument, FaultTrigger trigger, Ti
     {
         if (Fire(context))
         {
-            await Task.Delay(delay, context.Clock.Time, cancellationToken);
+            // Client timeouts run on the wall clock, so lateness is wall-clock time even on a virtual bench; a virtual delay would
+            // wait for a clock that nobody moves while this reply is owed.
+            var time = context.Clock is VirtualBenchClock ? TimeProvider.System : context.Clock.Time;
+            await Task.Delay(delay, time, cancellationToken);
         }
 
         return reply;

@@ -32,7 +32,7 @@ internal static class JackDecomposer
                 separations.Add(ShuntRatio(nominals));
             }
 
-            if (members.Any(r => r.Result.Model is "self-heating" or "self-heating-cubic") && SharedHeating(members, options) is { } heating)
+            if (members.Any(r => r.Result.Model is "self-heating" or "self-heating-cubic" or "heated-element") && SharedHeating(members, options) is { } heating)
             {
                 separations.Add(heating);
             }
@@ -97,7 +97,7 @@ internal static class JackDecomposer
     /// Ranges that show no heating add nothing to R_c or β and are left out.</remarks>
     private static Separation? SharedHeating(List<RangeAnalysis> ranges, AnalysisOptions options)
     {
-        var heated = ranges.Where(r => r.Result.Model is "self-heating" or "self-heating-cubic").ToList();
+        var heated = ranges.Where(r => r.Result.Model is "self-heating" or "self-heating-cubic" or "heated-element").ToList();
         var betaStart = heated.Select(r => r.Fits.FirstOrDefault(f => f.Succeeded && f.Model is SelfHeatingModel)?.Parameters[2] ?? 0).Max();
         var k = heated.Count;
         var n = heated.Sum(r => r.Data.Current.Length);

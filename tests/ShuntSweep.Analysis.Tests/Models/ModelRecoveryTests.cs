@@ -39,6 +39,22 @@ public sealed class ModelRecoveryTests
     }
 
     [Fact]
+    public void Analyse_RecoversHeatedElement_WhenOnlyTheFuseHeats()
+    {
+        // A 1.5 Ω shunt that stays cold behind a 0.3 Ω fuse that heats: R = R_sh + R_f/(1 − β·I²) with β·I² = 0.2 at 400 mA.
+        // Heating the whole 1.8 Ω (the self-heating model) biases R₀ by about a milliohm here; the heated-element model does not.
+        const double rsh = 1.5, rf = 0.3, beta = 1.25;
+        var samples = Some.Sweep("400mA", "mA", Some.Linear(0.01, 0.4, 30), i => i * (rsh + (rf / (1 - (beta * i * i)))), 2e-6, 5, new Random(21));
+
+        var range = Assert.Single(Characteriser.Analyse(samples, null).Ranges);
+
+        Assert.Equal("heated-element", range.Model);
+        Check.Within(rsh + rf, range.ResistanceOhms, 3);
+        Check.Within(rf, P(range, "heatedResistance"), 3);
+        Check.Within(beta, P(range, "heatingCoefficient"), 3);
+    }
+
+    [Fact]
     public void Analyse_RecoversClampDiodes_AcrossTheShunt()
     {
         // A 10 Ω shunt with an antiparallel diode pair (Is = 1 nA, n = 1.8) behind 0.1 Ω of fuse and contacts, swept to twice full scale.

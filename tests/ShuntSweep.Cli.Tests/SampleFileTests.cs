@@ -1,3 +1,4 @@
+using ShuntSweep.Testing;
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Engine.Planning;
 using ShuntSweep.Engine.Sequences;

@@ -45,7 +45,7 @@ internal sealed class SimulatedRun
 
     public JournalContents Journal => JournalCsv.Read(Path.Combine(Directory, RunJournal.JournalFile));
 
-    public static string BenchFile => Path.Combine(RepoRoot(), "simulators", "handheld-tarnwell-tw18.yaml");
+    public static string BenchFile => Repo.File("simulators/handheld-tarnwell-tw18.yaml");
 
     /// <summary>The handheld bench with <paramref name="faults"/> (YAML flow mappings) appended to its simulation section.</summary>
     public static string BenchWithFaults(params string[] faults)
@@ -118,16 +118,5 @@ internal sealed class SimulatedRun
         }
 
         return text.ToString().Trim();
-    }
-
-    private static string RepoRoot()
-    {
-        var dir = new DirectoryInfo(AppContext.BaseDirectory);
-        while (dir is not null && !File.Exists(Path.Combine(dir.FullName, "ShuntSweep.sln")))
-        {
-            dir = dir.Parent;
-        }
-
-        return dir?.FullName ?? throw new InvalidOperationException("ShuntSweep.sln not found.");
     }
 }

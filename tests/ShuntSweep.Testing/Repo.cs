@@ -1,7 +1,7 @@
-namespace ShuntSweep.Cli.Tests;
+namespace ShuntSweep.Testing;
 
 /// <summary>Finds files of the repository (sequences, simulated benches) from the test's output directory.</summary>
-internal static class Repo
+public static class Repo
 {
     public static string Root { get; } = FindRoot();
 

@@ -79,6 +79,40 @@ public sealed class SequenceReaderTests
     }
 
     [Fact]
+    public void Parameters_StandInWhereTheyAreNamed()
+    {
+        const string text = """
+            sequence: With parameters
+            parameters:
+              top: 90 %
+              wait: 250 ms
+            steps:
+              - sweep: { range: 60mA, currents: { linear: { from: 10 %, to: $top, points: 3 } }, dwell: $wait }
+            """;
+        var sweep = Assert.IsType<SweepItem>(SequenceReader.Parse(text, "p.yaml").Items[0]);
+        Assert.Equal(0.9, sweep.Currents[^1].Value, 12);
+        Assert.Equal(TimeSpan.FromMilliseconds(250), sweep.Settings.Settling.Dwell);
+    }
+
+    [Fact]
+    public void UnknownParameter_IsAnError_AtItsUse()
+    {
+        const string text = "sequence: x\nparameters:\n  top: 90 %\nsteps:\n  - sweep: { range: a, currents: [$tpo] }\n";
+        var ex = Assert.Throws<DocumentException>(() => SequenceReader.Parse(text, "p.yaml"));
+        Assert.Equal((5, 35), (ex.Line, ex.Column));
+        Assert.Contains("the parameters are top", ex.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void ParameterWithTheWrongUnit_IsReportedWhereItIsUsed()
+    {
+        const string text = "sequence: x\nparameters:\n  wait: 5 A\nsteps:\n  - sweep: { range: a, currents: [1 mA], dwell: $wait }\n";
+        var ex = Assert.Throws<DocumentException>(() => SequenceReader.Parse(text, "p.yaml"));
+        Assert.Equal(5, ex.Line);
+        Assert.Contains("seconds", ex.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void RandomText_NeverCrashesTheReader() =>
         Gen.String.Sample(text => Parse(text), iter: 2000);
 

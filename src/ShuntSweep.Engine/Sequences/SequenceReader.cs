@@ -7,15 +7,85 @@ namespace ShuntSweep.Engine.Sequences;
 public static class SequenceReader
 {
     /// <summary>Loads the sequence at <paramref name="path"/>.</summary>
-    public static Sequence Load(string path) => Read(YamlDocument.Load(path));
+    public static Sequence Load(string path) => Parse(File.ReadAllText(path), path);
 
     /// <summary>Parses sequence text; <paramref name="fileName"/> is used in messages.</summary>
-    public static Sequence Parse(string text, string fileName) => Read(YamlDocument.Parse(text, fileName));
+    /// <remarks>Values may name a parameter of the file's <c>parameters</c> mapping as <c>$name</c> (<c>$$</c> is a literal <c>$</c>); the parameter's
+    /// text stands in its place before the file is read, so a unit mismatch is reported where the parameter is used.</remarks>
+    public static Sequence Parse(string text, string fileName)
+    {
+        ArgumentNullException.ThrowIfNull(text);
+        var first = YamlDocument.Parse(text, fileName);
+        var parameters = new Dictionary<string, string>(StringComparer.Ordinal);
+        if (first.Mapping("parameters") is { } map)
+        {
+            foreach (var (key, value) in map.Entries())
+            {
+                parameters[key] = value.AsString();
+            }
+        }
+
+        return Read(text.Contains('$', StringComparison.Ordinal) ? YamlDocument.Parse(Substitute(text, parameters, fileName), fileName) : first);
+    }
+
+    private static string Substitute(string text, Dictionary<string, string> parameters, string fileName)
+    {
+        var result = new System.Text.StringBuilder(text.Length);
+        var line = 1;
+        var lineStart = 0;
+        for (var i = 0; i < text.Length; i++)
+        {
+            var c = text[i];
+            if (c == '\n')
+            {
+                line++;
+                lineStart = i + 1;
+            }
+
+            if (c != '$')
+            {
+                result.Append(c);
+                continue;
+            }
+
+            if (i + 1 < text.Length && text[i + 1] == '$')
+            {
+                result.Append('$');
+                i++;
+                continue;
+            }
+
+            var end = i + 1;
+            while (end < text.Length && (char.IsAsciiLetterOrDigit(text[end]) || text[end] == '_'))
+            {
+                end++;
+            }
+
+            var name = text[(i + 1)..end];
+            if (name.Length == 0 || !char.IsAsciiLetter(name[0]))
+            {
+                result.Append(c);
+                continue;
+            }
+
+            if (!parameters.TryGetValue(name, out var value))
+            {
+                var known = parameters.Count == 0 ? "the file has no 'parameters'" : $"the parameters are {string.Join(", ", parameters.Keys)}";
+                throw new DocumentException(fileName, line, i - lineStart + 1, $"'${name}' names no parameter; {known} (write $$ for a literal $).");
+            }
+
+            result.Append(value);
+            i = end - 1;
+        }
+
+        return result.ToString();
+    }
 
     private static Sequence Read(MappingReader doc)
     {
         var title = doc.Text("sequence");
         doc.StringOr("description", null);
+        doc.Optional("parameters");
 
         var defaultsMap = doc.Mapping("defaults");
         var defaults = ReadSettings(defaultsMap, new PointSettings(

@@ -42,6 +42,16 @@ public sealed class SampleFileTests
         return line is null ? 0 : int.Parse(line["# expect-exit:".Length..].Trim(), System.Globalization.CultureInfo.InvariantCulture);
     }
 
+    [Fact]
+    public void ReadmeSequenceExample_PlansSafelyOnTheDefaultBench()
+    {
+        var readme = File.ReadAllText(Repo.File("README.md"));
+        var start = readme.IndexOf("```yaml\nsequence:", StringComparison.Ordinal) + "```yaml\n".Length;
+        var example = readme[start..readme.IndexOf("```", start, StringComparison.Ordinal)];
+        var plan = Planner.Plan(SequenceReader.Parse(example, "README.md"), BenchReader.Load(Repo.File("simulators/handheld-tarnwell-tw18.yaml")));
+        Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
+    }
+
     /// <summary>A sequence names its bench in a leading comment line <c># bench: simulators/x.yaml</c>; the default bench otherwise.</summary>
     private static string BenchFor(string sequence)
     {

@@ -84,6 +84,14 @@ public sealed class DemoRunTests
     }
 
     [Fact]
+    public async Task Run_OnABenchWhoseSupplyDoesNotAnswer_ExitsWithInstrumentFailure()
+    {
+        // Port 9 (discard) on loopback has no listener here: the connection is refused before anything is switched on.
+        var bench = Some.TempFile(File.ReadAllText(Bench).Replace("\"SIM::supply\"", "\"TCPIP::127.0.0.1::9::SOCKET\"", StringComparison.Ordinal));
+        Assert.Equal(5, await Cli.RunAsync("run", Repo.File("sequences/ci-smoke.yaml"), "--bench", bench, "--out", Some.TempDirectory(), "--answers", Some.TempFile("otherwise: done\n")));
+    }
+
+    [Fact]
     public async Task Fit_ReportsAMalformedRow_WithExitCodeTwo()
     {
         var journal = Some.TempFile("range,setpoint_A,reference_A,burden_V\n1A,0.1,0.1,0.01\n1A,0.2,zero,0.02\n", ".csv");

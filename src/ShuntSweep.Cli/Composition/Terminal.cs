@@ -32,6 +32,11 @@ internal static class Terminal
         {
             return Fail(ex.Message, ExitCodes.InvalidInput);
         }
+        catch (ShuntSweep.Instruments.Messaging.InstrumentException ex)
+        {
+            // Raised before a run starts (connecting, identifying): no output has been turned on by then.
+            return Fail(ex.Message, ExitCodes.InstrumentFailure);
+        }
         catch (Exception ex) when (ex is FormatException or ArgumentException or InvalidDataException or KeyNotFoundException)
         {
             // Bad data inside a well-formed file (too few points in a range, an unknown range name, a malformed result.json).

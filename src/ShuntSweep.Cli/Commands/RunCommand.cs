@@ -111,6 +111,14 @@ internal static class RunCommand
             identities[BenchReader.KeyOf(InstrumentRole.Reference)] = (await reference.IdentifyAsync(ct)).ToString();
         }
 
+        var onThisBench = Planner.Estimate(plan.Steps, settings => new[]
+            {
+                instruments.DropMeter.MeasurementTime,
+                settings.Read.HasFlag(Readings.Uut) && instruments.UutMeter is { } u ? u.MeasurementTime : TimeSpan.Zero,
+                settings.Read.HasFlag(Readings.Reference) && instruments.Reference is { } r ? r.MeasurementTime : TimeSpan.Zero,
+            }.Max());
+        AnsiConsole.MarkupLineInterpolated($"With these instruments' measurement times: about {onThisBench.TotalSeconds:0.#} s on the bench.");
+
         if (previous is null)
         {
             new RunManifest(

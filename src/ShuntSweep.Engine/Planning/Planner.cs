@@ -184,14 +184,18 @@ public static class Planner
         }
     }
 
-    private static TimeSpan Estimate(IReadOnlyList<PlanStep> steps)
+    /// <summary>The expected duration of <paramref name="steps"/> when one sample takes <paramref name="sampleTime"/> (by default the integration time at the step's NPLC).</summary>
+    /// <remarks>Once the bench is connected, the instruments' own measurement times (a handheld UUT may read only three times a second) give a better estimate.</remarks>
+    public static TimeSpan Estimate(IReadOnlyList<PlanStep> steps, Func<PointSettings, TimeSpan>? sampleTime = null)
     {
+        ArgumentNullException.ThrowIfNull(steps);
+        sampleTime ??= IntegrationTime;
         var total = TimeSpan.Zero;
         foreach (var step in steps)
         {
             total += step switch
             {
-                MeasureStep m => m.Settings.Settling.Dwell + (IntegrationTime(m.Settings) * (m.Settings.Samples + m.Settings.Settling.AgreeCount)),
+                MeasureStep m => m.Settings.Settling.Dwell + (sampleTime(m.Settings) * (m.Settings.Samples + m.Settings.Settling.AgreeCount)),
                 HoldStep h => h.Duration + h.Settings.Settling.Dwell,
                 RampStep r => r.Duration,
                 _ => TimeSpan.Zero,

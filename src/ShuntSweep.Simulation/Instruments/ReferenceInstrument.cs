@@ -46,7 +46,7 @@ internal static class ReferenceInstrument
         {
             c.Expect(0, 0);
             Arm();
-            c.Reply(TriggeredMeasurement.Format(await measurement.FetchAsync(CancellationToken.None)));
+            await measurement.ReplyAsync(c);
         }
 
         var commands = new ScpiCommandSet()
@@ -112,16 +112,7 @@ internal static class ReferenceInstrument
                 c.Expect(1, 1);
                 c.Choice(0, "IMMediate");
             })
-            .Add("INITiate[:IMMediate]", c =>
-            {
-                c.Expect(0, 0);
-                Arm();
-            })
-            .Add("FETCh[:CURRent][:DC]?", async c =>
-            {
-                c.Expect(0, 0);
-                c.Reply(TriggeredMeasurement.Format(await measurement.FetchAsync(CancellationToken.None)));
-            })
+            .AddArmAndFetch("FETCh[:CURRent][:DC]?", measurement, Arm)
             .Add("READ?", Read)
             .AddSimulation(circuit);
         return new ScpiInstrument(

@@ -70,5 +70,29 @@ internal sealed class TriggeredMeasurement(BenchCircuit circuit, IBenchClock clo
     }
 
     /// <summary>Formats readings as comma-separated NR3 values.</summary>
-    public static string Format(IEnumerable<double> readings) => string.Join(',', readings.Select(ScpiNumber.Nr3));
+    private static string Format(IEnumerable<double> readings) => string.Join(',', readings.Select(ScpiNumber.Nr3));
+
+    /// <summary>Answers a fetch: waits for the armed readings and replies with them.</summary>
+    public async ValueTask ReplyAsync(ScpiCall call)
+    {
+        ArgumentNullException.ThrowIfNull(call);
+        call.Reply(Format(await FetchAsync(CancellationToken.None)));
+    }
+}
+
+/// <summary>The arm-then-fetch commands every simulated meter serves the same way.</summary>
+internal static class TriggeredCommands
+{
+    /// <summary>Adds <c>INITiate[:IMMediate]</c> (runs <paramref name="arm"/>) and the meter's FETCh? query, both without parameters.</summary>
+    public static ScpiCommandSet AddArmAndFetch(this ScpiCommandSet commands, string fetchPattern, TriggeredMeasurement measurement, Action arm) => commands
+        .Add("INITiate[:IMMediate]", c =>
+        {
+            c.Expect(0, 0);
+            arm();
+        })
+        .Add(fetchPattern, async c =>
+        {
+            c.Expect(0, 0);
+            await measurement.ReplyAsync(c);
+        });
 }

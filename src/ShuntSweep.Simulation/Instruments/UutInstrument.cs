@@ -24,7 +24,7 @@ internal static class UutInstrument
         {
             c.Expect(0, 0);
             Arm();
-            c.Reply(TriggeredMeasurement.Format(await measurement.FetchAsync(CancellationToken.None)));
+            await measurement.ReplyAsync(c);
         }
 
         var commands = new ScpiCommandSet()
@@ -42,16 +42,7 @@ internal static class UutInstrument
                 circuit.Change(b => b.Uut.Selected = range);
             })
             .Add("CONFigure?", c => c.Reply($"\"CURR {ScpiNumber.Nr3(circuit.At(b => b.Uut.Selected.Spec.FullScale.Amperes))}\""))
-            .Add("INITiate[:IMMediate]", c =>
-            {
-                c.Expect(0, 0);
-                Arm();
-            })
-            .Add("FETCh[:CURRent][:DC]?", async c =>
-            {
-                c.Expect(0, 0);
-                c.Reply(TriggeredMeasurement.Format(await measurement.FetchAsync(CancellationToken.None)));
-            })
+            .AddArmAndFetch("FETCh[:CURRent][:DC]?", measurement, Arm)
             .Add("READ?", Read)
             .AddSimulation(circuit);
         var spec = uut.Description;

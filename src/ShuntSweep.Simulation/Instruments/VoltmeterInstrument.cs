@@ -63,7 +63,7 @@ internal static class VoltmeterInstrument
         async ValueTask Read(ScpiCall c)
         {
             Arm();
-            c.Reply(TriggeredMeasurement.Format(await measurement.FetchAsync(CancellationToken.None)));
+            await measurement.ReplyAsync(c);
         }
 
         var commands = new ScpiCommandSet()
@@ -110,16 +110,7 @@ internal static class VoltmeterInstrument
                 c.Choice(0, "IMMediate");
             })
             .Add("TRIGger[:SEQuence]:SOURce?", c => c.Reply("IMM"))
-            .Add("INITiate[:IMMediate]", c =>
-            {
-                c.Expect(0, 0);
-                Arm();
-            })
-            .Add("FETCh[:VOLTage][:DC]?", async c =>
-            {
-                c.Expect(0, 0);
-                c.Reply(TriggeredMeasurement.Format(await measurement.FetchAsync(CancellationToken.None)));
-            })
+            .AddArmAndFetch("FETCh[:VOLTage][:DC]?", measurement, Arm)
             .Add("READ?", Read)
             .Add("MEASure[:VOLTage][:DC]?", async c =>
             {

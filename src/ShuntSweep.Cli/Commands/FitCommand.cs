@@ -3,7 +3,6 @@ using System.Globalization;
 using ShuntSweep.Analysis;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Cli.Composition;
-using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Records;
 using ShuntSweep.Core.Uut;
@@ -30,7 +29,7 @@ internal static class FitCommand
             }
 
             var uutPath = parse.GetValue(uutOpt);
-            UutDescription? uut = uutPath is null ? null : LoadUut(uutPath);
+            UutDescription? uut = uutPath is null ? null : UutReader.Load(uutPath);
             var result = Characteriser.Analyse(contents.Samples, uut);
             var outPath = parse.GetValue(outOpt) ?? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(journalPath)) ?? ".", "result.json");
             ResultJson.Write(result, outPath);
@@ -39,15 +38,6 @@ internal static class FitCommand
             return Task.FromResult(ExitCodes.Success);
         }));
         return command;
-    }
-
-    /// <summary>Loads a UUT from a UUT file or from the <c>uut</c> section of a bench file.</summary>
-    public static UutDescription LoadUut(string path)
-    {
-        var text = File.ReadAllText(path);
-        return text.Contains("\ninstruments:", StringComparison.Ordinal) || text.StartsWith("instruments:", StringComparison.Ordinal)
-            ? BenchReader.Load(path).Uut
-            : UutReader.Load(path);
     }
 
     /// <summary>Prints one row per range: model, resistance ± expanded uncertainty, offset, burden at full scale.</summary>

@@ -95,22 +95,8 @@ internal static class RunCommand
 
         var wall = System.Diagnostics.Stopwatch.StartNew();
         await using var instruments = await BenchHost.ConnectAsync(bench, clock, seed, traffic, ct);
-        var identities = new Dictionary<string, string>
-        {
-            [BenchReader.KeyOf(InstrumentRole.Supply)] = (await instruments.Supply.IdentifyAsync(ct)).ToString(),
-            [BenchReader.KeyOf(InstrumentRole.Load)] = (await instruments.Load.IdentifyAsync(ct)).ToString(),
-            [BenchReader.KeyOf(InstrumentRole.DropMeter)] = (await instruments.DropMeter.IdentifyAsync(ct)).ToString(),
-        };
-        if (instruments.UutMeter is { } uutMeter)
-        {
-            identities[BenchReader.KeyOf(InstrumentRole.UutMeter)] = (await uutMeter.IdentifyAsync(ct)).ToString();
-        }
-
-        if (instruments.Reference is { } reference)
-        {
-            identities[BenchReader.KeyOf(InstrumentRole.Reference)] = (await reference.IdentifyAsync(ct)).ToString();
-        }
-
+        // The connector asked every instrument for its identity (*IDN?) when it connected.
+        var identities = instruments.Instruments.ToDictionary(i => BenchReader.KeyOf(i.Role), i => i.Identity.ToString());
         var onThisBench = Planner.Estimate(plan.Steps, settings => new[]
             {
                 instruments.DropMeter.MeasurementTime,

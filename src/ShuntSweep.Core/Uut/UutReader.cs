@@ -6,10 +6,15 @@ namespace ShuntSweep.Core.Uut;
 /// <summary>Reads a UUT description from YAML, strictly: unknown keys, missing keys and wrong units are errors with their position.</summary>
 public static class UutReader
 {
-    /// <summary>Loads a UUT file whose top level holds the <c>uut</c> mapping, or is that mapping itself.</summary>
+    /// <summary>Loads a UUT file whose top level holds the <c>uut</c> mapping, or is that mapping itself, or a bench file's UUT.</summary>
     public static UutDescription Load(string path)
     {
         var doc = YamlDocument.Load(path);
+        if (doc.Optional("bench") is not null)
+        {
+            return Bench.BenchReader.Load(path).Uut;
+        }
+
         var node = doc.Mapping("uut");
         if (node is null)
         {

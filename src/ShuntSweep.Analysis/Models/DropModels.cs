@@ -13,6 +13,7 @@ internal static class DropModels
         new HeatedElementModel(),
         new FeedbackKneeModel(),
         new ClampDiodeModel(diodeTemperatureKelvin),
+        new ClampDiodeOnsetModel(diodeTemperatureKelvin),
     ];
 
     /// <summary>The model called <paramref name="name"/>; throws with the known names otherwise.</summary>

@@ -24,6 +24,7 @@ public static class Characteriser
         }
 
         var analyses = new List<RangeAnalysis>();
+        var taps = new List<TapFit>();
         foreach (var group in samples.GroupBy(s => s.Range))
         {
             var rangeSamples = group.ToList();
@@ -31,10 +32,14 @@ public static class Characteriser
             var jack = spec?.Jack ?? rangeSamples[0].Jack;
             var fullScale = spec?.FullScale.Amperes ?? rangeSamples.Max(s => Math.Abs(s.Setpoint.Amperes));
             analyses.Add(RangeAnalysis.Run(group.Key, jack, fullScale, spec, rangeSamples, options));
+            if (TapSeparation.Fit(group.Key, rangeSamples, options) is { } tap)
+            {
+                taps.Add(tap);
+            }
         }
 
         var ranges = analyses.Select(a => a.Result).ToList();
-        var decomposition = JackDecomposer.Decompose(analyses, uut, options);
+        var decomposition = JackDecomposer.Decompose(analyses, taps, uut, options);
         var statements = ranges.Where(r => r.ReadingError is not null).SelectMany(r => r.ReadingError!).Select(p => p.Statement).ToList();
         return new CharacterisationResult(
             ranges,

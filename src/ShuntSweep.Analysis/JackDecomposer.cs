@@ -9,14 +9,20 @@ namespace ShuntSweep.Analysis;
 /// <summary>Separates each jack's common series part (fuse, contacts, leads) from its ranges' shunts, under stated hypotheses, each with a χ² check.</summary>
 internal static class JackDecomposer
 {
-    /// <summary>Every separation the data and the UUT description allow, per jack.</summary>
-    public static List<JackDecomposition> Decompose(IReadOnlyList<RangeAnalysis> ranges, UutDescription? uut, AnalysisOptions options)
+    /// <summary>Every separation the data and the UUT description allow, per jack; the tap separation first where the bench had a shunt tap.</summary>
+    public static List<JackDecomposition> Decompose(IReadOnlyList<RangeAnalysis> ranges, IReadOnlyList<TapFit> taps, UutDescription? uut, AnalysisOptions options)
     {
         var list = new List<JackDecomposition>();
         foreach (var jack in ranges.GroupBy(r => r.Result.Jack))
         {
             var members = jack.ToList();
             var separations = new List<Separation>();
+            var tapped = taps.Where(t => members.Any(m => m.Result.Name == t.Range)).ToList();
+            if (tapped.Count > 0)
+            {
+                separations.Add(TapSeparation.Separate(tapped));
+            }
+
             var nominals = members
                 .Select(r => (Range: r, Nominal: uut?.Ranges.FirstOrDefault(s => s.Name == r.Result.Name)?.NominalShunt?.Ohms))
                 .Where(t => t.Nominal is > 0)

@@ -75,7 +75,8 @@ public static class BenchConnector
             Driver<IUutMeter>(InstrumentRole.UutMeter),
             Driver<IReferenceAmmeter>(InstrumentRole.Reference),
             connected.Values.Select(c => c.Connection).ToList(),
-            connected.Values.Select(c => c.Info).OrderBy(i => i.Role).ToList());
+            connected.Values.Select(c => c.Info).OrderBy(i => i.Role).ToList(),
+            Driver<IVoltmeter>(InstrumentRole.ShuntTap));
     }
 
     /// <summary>Opens a message session to <paramref name="address"/> with <paramref name="settings"/> (also used by <c>shuntsweep probe</c>).</summary>
@@ -186,7 +187,7 @@ public static class BenchConnector
             {
                 InstrumentRole.Supply => new ScpiSupply(session, profile, resilience),
                 InstrumentRole.Load => new ScpiLoad(session, profile, resilience),
-                InstrumentRole.DropMeter => new ScpiVoltmeter(session, profile, settings.Timing, resilience),
+                InstrumentRole.DropMeter or InstrumentRole.ShuntTap => new ScpiVoltmeter(session, profile, settings.Timing, resilience),
                 InstrumentRole.UutMeter => new ScpiUutMeter(session, profile, settings.Timing, settings.Nplc, resilience),
                 InstrumentRole.Reference when settings.Shunt is { } shunt => new ShuntReferenceAmmeter(new ScpiVoltmeter(session, profile, settings.Timing, resilience), shunt),
                 InstrumentRole.Reference => new ScpiReferenceAmmeter(session, profile, settings.Timing, resilience),

@@ -13,7 +13,8 @@ public sealed class InstrumentBench(
     IUutMeter? uutMeter,
     IReferenceAmmeter? reference,
     IReadOnlyList<IAsyncDisposable> connections,
-    IReadOnlyList<ConnectedInstrument>? instruments = null) : IAsyncDisposable
+    IReadOnlyList<ConnectedInstrument>? instruments = null,
+    IVoltmeter? shuntTap = null) : IAsyncDisposable
 {
     /// <summary>The clock of the bench (virtual for an in-process simulation).</summary>
     public IBenchClock Clock { get; } = clock;
@@ -32,6 +33,9 @@ public sealed class InstrumentBench(
 
     /// <summary>The reference ammeter, when the bench has one.</summary>
     public IReferenceAmmeter? Reference { get; } = reference;
+
+    /// <summary>The tap voltmeter across the selected range's shunt inside the UUT, when the bench has one.</summary>
+    public IVoltmeter? ShuntTap { get; } = shuntTap;
 
     /// <summary>Who answered at each role when the bench was connected (identity, profile, errors left in the queue), for the run manifest.</summary>
     public IReadOnlyList<ConnectedInstrument> Instruments { get; } = instruments ?? [];

@@ -57,9 +57,11 @@ public sealed class SimulatedBench : IAsyncDisposable
             {
                 "supply" => SupplyInstrument.Create(circuit, clock, random),
                 "load" => LoadInstrument.Create(circuit, clock, random),
-                "dmm" => VoltmeterInstrument.Create(circuit, clock, random),
+                "dmm" => VoltmeterInstrument.Create(circuit, settings.Dmm!, op => op.JackVoltage, range => circuit.Change(b => b.DmmRange = range), clock, random),
+                "tap" => VoltmeterInstrument.Create(circuit, settings.Tap!, op => op.ShuntVoltage, _ => { }, clock, random),
                 "uut" => UutInstrument.Create(circuit, clock, random),
-                _ => ReferenceInstrument.Create(circuit, clock, random),
+                "ref" => ReferenceInstrument.Create(circuit, clock, random),
+                _ => throw new InvalidOperationException($"No simulated instrument is called '{name}'."),
             };
             var faults = settings.Faults.Where(f => f.Instrument == name).ToList();
             var faultRandom = SeededRandom.For(seed, "faults:" + name);

@@ -15,6 +15,7 @@ internal sealed record SimulationSettings(
     SupplyPhysics Supply,
     LoadPhysics Load,
     VoltmeterPhysics? Dmm,
+    VoltmeterPhysics? Tap,
     ReferencePhysics? Reference,
     IReadOnlyList<IFault> Faults);
 
@@ -24,7 +25,7 @@ internal sealed record SimulationSettings(
 internal static class SimulationReader
 {
     /// <summary>The SIM:: names the simulator serves, in port order.</summary>
-    public static readonly string[] Served = ["supply", "load", "dmm", "uut", "ref"];
+    public static readonly string[] Served = ["supply", "load", "dmm", "uut", "ref", "tap"];
 
     /// <summary>Builds the simulation of <paramref name="bench"/> for <paramref name="seed"/>.</summary>
     public static SimulationSettings Read(BenchDescription bench, int seed)
@@ -70,24 +71,8 @@ internal static class SimulationReader
             l?.QuantityOr("currentNoise", SiUnit.Ampere, 1e-5) ?? 1e-5);
         l?.Finish();
 
-        var d = map?.Mapping("dmm");
-        VoltmeterPhysics? dmm = null;
-        if (served.Contains("dmm"))
-        {
-            dmm = new VoltmeterPhysics(
-                Identity(d, "ShuntSweep,SIM-DMM,DMM-0001,1.0"),
-                d?.QuantityOr("inputResistance", SiUnit.Ohm, 10e6) ?? 10e6,
-                d?.QuantityOrNull("highImpedance", SiUnit.Ohm),
-                d?.QuantityOr("noiseAt1Plc", SiUnit.Volt, 1e-6) ?? 1e-6,
-                d?.QuantityOr("noiseFloor", SiUnit.Volt, 5e-8) ?? 5e-8,
-                d?.QuantityOr("offsetAutoZeroOn", SiUnit.Volt, 2e-7) ?? 2e-7,
-                d?.QuantityOr("offsetAutoZeroOff", SiUnit.Volt, 3e-6) ?? 3e-6,
-                d?.QuantityOr("overhead", SiUnit.Second, 0.002) ?? 0.002,
-                d?.QuantityOr("counts", SiUnit.None, 1.2e7) ?? 1.2e7,
-                line);
-        }
-
-        d?.Finish();
+        var dmm = ReadVoltmeter(map, "dmm", served, "ShuntSweep,SIM-DMM,DMM-0001,1.0", line);
+        var tap = ReadVoltmeter(map, "tap", served, "ShuntSweep,SIM-DMM,DMM-0002,1.0", line);
 
         var r = map?.Mapping("ref");
         ReferencePhysics? reference = null;
@@ -106,7 +91,31 @@ internal static class SimulationReader
 
         var faults = FaultReader.Read(map?.List("faults") ?? [], served, uut);
         map?.Finish();
-        return new SimulationSettings(ambient, uut, supply, load, dmm, reference, faults);
+        return new SimulationSettings(ambient, uut, supply, load, dmm, tap, reference, faults);
+    }
+
+    /// <summary>The physics of the voltmeter served as <c>SIM::name</c> (the drop meter, or the tap across the shunt); null when the bench does not use it.</summary>
+    private static VoltmeterPhysics? ReadVoltmeter(MappingReader? section, string name, List<string> served, string identity, double line)
+    {
+        var d = section?.Mapping(name);
+        VoltmeterPhysics? physics = null;
+        if (served.Contains(name))
+        {
+            physics = new VoltmeterPhysics(
+                Identity(d, identity),
+                d?.QuantityOr("inputResistance", SiUnit.Ohm, 10e6) ?? 10e6,
+                d?.QuantityOrNull("highImpedance", SiUnit.Ohm),
+                d?.QuantityOr("noiseAt1Plc", SiUnit.Volt, 1e-6) ?? 1e-6,
+                d?.QuantityOr("noiseFloor", SiUnit.Volt, 5e-8) ?? 5e-8,
+                d?.QuantityOr("offsetAutoZeroOn", SiUnit.Volt, 2e-7) ?? 2e-7,
+                d?.QuantityOr("offsetAutoZeroOff", SiUnit.Volt, 3e-6) ?? 3e-6,
+                d?.QuantityOr("overhead", SiUnit.Second, 0.002) ?? 0.002,
+                d?.QuantityOr("counts", SiUnit.None, 1.2e7) ?? 1.2e7,
+                line);
+        }
+
+        d?.Finish();
+        return physics;
     }
 
     private static string Identity(MappingReader? map, string fallback)

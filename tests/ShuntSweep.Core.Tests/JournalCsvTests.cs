@@ -21,9 +21,19 @@ public sealed class JournalCsvTests
     }
 
     [Fact]
+    public void ShuntTapColumn_RoundTrips_AndAJournalWithoutItReadsAsNoTap()
+    {
+        var tapped = new[] { S(0, 0.01, 0.01) with { ShuntTap = new Voltage(0.0123) }, S(1, 0.02, 0.02) with { ShuntTap = new Voltage(0.0246) } };
+        Assert.Equal(tapped, JournalCsv.Parse(JournalCsv.Header + JournalCsv.FormatRows(tapped), "j.csv").Samples);
+
+        var withoutTapColumn = "range,jack,step,sample,setpoint_A,reference_A,uut_reading_A,burden_V,supply_V,load_V,elapsed_s\n60mA,mA,0,0,0.01,0.01,,0.021,5,4.8,0\n";
+        Assert.Null(Assert.Single(JournalCsv.Parse(withoutTapColumn, "old.csv").Samples).ShuntTap);
+    }
+
+    [Fact]
     public void MalformedRow_IsReported_WithItsLineNumber()
     {
-        var text = JournalCsv.Header + JournalCsv.FormatRows([S(0, 0.01, 0.01)]) + "60mA,mA,1,0,abc,0.02,,0.04,5,4.8,1\n";
+        var text = JournalCsv.Header + JournalCsv.FormatRows([S(0, 0.01, 0.01)]) + "60mA,mA,1,0,abc,0.02,,0.04,5,4.8,1,\n";
         var ex = Assert.Throws<DocumentException>(() => JournalCsv.Parse(text, "j.csv"));
         Assert.Equal(3, ex.Line);
         Assert.Contains("setpoint_A", ex.Message, StringComparison.Ordinal);

@@ -21,6 +21,10 @@ public enum InstrumentRole
 
     /// <summary>The reference ammeter (or a voltmeter across a reference shunt).</summary>
     Reference,
+
+    /// <summary>An optional second voltmeter wired by the UUT's designers across the selected range's shunt, inside the UUT;
+    /// it splits the drop into the shunt's part and the jack's series part (fuse, contacts) without any hypothesis.</summary>
+    ShuntTap,
 }
 
 /// <summary>One instrument of the bench: its role, where it is, and its driver settings (read by the instrument layer).</summary>

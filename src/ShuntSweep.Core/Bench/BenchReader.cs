@@ -14,6 +14,7 @@ public static class BenchReader
         ["dropMeter"] = InstrumentRole.DropMeter,
         ["uutMeter"] = InstrumentRole.UutMeter,
         ["reference"] = InstrumentRole.Reference,
+        ["shuntTap"] = InstrumentRole.ShuntTap,
     };
 
     /// <summary>The key a role has in the <c>instruments</c> mapping of a bench file.</summary>

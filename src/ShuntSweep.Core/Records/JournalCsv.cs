@@ -8,13 +8,14 @@ using ShuntSweep.Core.Quantities;
 namespace ShuntSweep.Core.Records;
 
 /// <summary>The journal's CSV form: one row per sample, each column named with its unit, numbers in invariant round-trip form.</summary>
-/// <remarks>An empty <c>uut_reading_A</c> means no reading; <c>+OL</c>/<c>-OL</c> mean the UUT showed overload.</remarks>
+/// <remarks>An empty <c>uut_reading_A</c> means no reading; <c>+OL</c>/<c>-OL</c> mean the UUT showed overload. An empty
+/// <c>shunt_tap_V</c> means the bench has no tap voltmeter across the shunt.</remarks>
 public static class JournalCsv
 {
     /// <summary>The columns in the order they are written.</summary>
     public static readonly IReadOnlyList<string> Columns =
     [
-        "range", "jack", "step", "sample", "setpoint_A", "reference_A", "uut_reading_A", "burden_V", "supply_V", "load_V", "elapsed_s",
+        "range", "jack", "step", "sample", "setpoint_A", "reference_A", "uut_reading_A", "burden_V", "supply_V", "load_V", "elapsed_s", "shunt_tap_V",
     ];
 
     /// <summary>The columns a journal must have to be fitted; the rest are optional and unknown ones are ignored.</summary>
@@ -43,6 +44,7 @@ public static class JournalCsv
             csv.WriteField(Number(s.SupplyVoltage.Volts));
             csv.WriteField(Number(s.LoadVoltage.Volts));
             csv.WriteField(Number(s.Elapsed.TotalSeconds));
+            csv.WriteField(s.ShuntTap is { } tap ? Number(tap.Volts) : string.Empty);
             csv.NextRecord();
         }
 
@@ -161,7 +163,8 @@ public static class JournalCsv
                 new Voltage(Num("burden_V", true)),
                 new Voltage(Num("supply_V", false) is var sv && double.IsNaN(sv) ? 0 : sv),
                 new Voltage(Num("load_V", false) is var lv && double.IsNaN(lv) ? 0 : lv),
-                TimeSpan.FromSeconds(Num("elapsed_s", false) is var e && double.IsNaN(e) ? 0 : e)));
+                TimeSpan.FromSeconds(Num("elapsed_s", false) is var e && double.IsNaN(e) ? 0 : e),
+                Num("shunt_tap_V", false) is var tap && double.IsNaN(tap) ? null : new Voltage(tap)));
         }
 
         return new JournalContents(NumberSteps(samples), torn);

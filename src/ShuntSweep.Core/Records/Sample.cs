@@ -14,6 +14,7 @@ namespace ShuntSweep.Core.Records;
 /// <param name="SupplyVoltage">The supply's measured output voltage.</param>
 /// <param name="LoadVoltage">The load's measured input voltage.</param>
 /// <param name="Elapsed">Time since the start of the run.</param>
+/// <param name="ShuntTap">The voltage across the range's shunt read by a tap voltmeter inside the UUT; null when the bench has none.</param>
 public sealed record Sample(
     string Range,
     string Jack,
@@ -25,4 +26,5 @@ public sealed record Sample(
     Voltage Burden,
     Voltage SupplyVoltage,
     Voltage LoadVoltage,
-    TimeSpan Elapsed);
+    TimeSpan Elapsed,
+    Voltage? ShuntTap = null);

@@ -181,6 +181,11 @@ public sealed class Runner
         if (nplc != _nplc || rangeChanged)
         {
             await _bench.DropMeter.ConfigureAsync(new VoltmeterSettings(null, nplc, true, 1), ct);
+            if (_bench.ShuntTap is { } tap)
+            {
+                await tap.ConfigureAsync(new VoltmeterSettings(null, nplc, true, 1), ct);
+            }
+
             if (_bench.Reference is { } reference)
             {
                 await reference.ConfigureAsync(LargestCurrentOn(range), nplc, ct);
@@ -210,7 +215,7 @@ public sealed class Runner
         var readings = new List<Reading>(m.Settings.Samples);
         for (var i = 0; i < m.Settings.Samples; i++)
         {
-            readings.Add(await ReadTogetherAsync(m.Settings.Read, ct));
+            readings.Add(await ReadTogetherAsync(m.Settings.Read, ct, withTap: true));
         }
 
         return await FinishPointAsync(m, m.Setpoint, readings, ct);
@@ -256,7 +261,7 @@ public sealed class Runner
         for (var k = 0; k < count; k++)
         {
             await Clock.WaitUntilAsync(t0 + (h.Interval * k), ct);
-            var r = await ReadTogetherAsync(h.Settings.Read, ct);
+            var r = await ReadTogetherAsync(h.Settings.Read, ct, withTap: true);
             readings.Add(r);
             CheckDrop(r.Drop, h.Range);
         }
@@ -291,7 +296,8 @@ public sealed class Runner
             new Voltage(r.Drop),
             supplyVolts,
             loadVolts,
-            r.At - _start)).ToList();
+            r.At - _start,
+            double.IsNaN(r.Tap) ? null : new Voltage(r.Tap))).ToList();
 
         if (!regulating)
         {
@@ -354,11 +360,13 @@ public sealed class Runner
         }
     }
 
-    private async Task<Reading> ReadTogetherAsync(Readings read, CancellationToken ct)
+    /// <summary>Arms the drop meter and the meters <paramref name="read"/> names (and the shunt tap, when asked and present) together, then fetches each.</summary>
+    private async Task<Reading> ReadTogetherAsync(Readings read, CancellationToken ct, bool withTap = false)
     {
         var meters = new List<ITriggeredMeter> { _bench.DropMeter };
         var uut = read.HasFlag(Readings.Uut) ? _bench.UutMeter : null;
         var reference = read.HasFlag(Readings.Reference) ? _bench.Reference : null;
+        var tap = withTap ? _bench.ShuntTap : null;
         if (uut is not null)
         {
             meters.Add(uut);
@@ -369,13 +377,19 @@ public sealed class Runner
             meters.Add(reference);
         }
 
+        if (tap is not null)
+        {
+            meters.Add(tap);
+        }
+
         var at = Clock.Now();
         await Task.WhenAll(meters.Select(m => m.ArmAsync(ct)));
         var values = await Task.WhenAll(meters.Select(m => m.FetchAsync(ct)));
         var drop = values[0][0];
         var index = 1;
         var uutValue = uut is null ? double.NaN : values[index++][0];
-        var referenceValue = reference is null ? double.NaN : values[index][0];
+        var referenceValue = reference is null ? double.NaN : values[index++][0];
+        var tapValue = tap is null ? double.NaN : values[index][0];
         if (double.IsNaN(drop) || (reference is not null && double.IsNaN(referenceValue)))
         {
             throw new InvalidDataException($"The {(double.IsNaN(drop) ? "drop voltmeter" : "reference ammeter")} answered not-a-number (SCPI 9.91E37) at {at:O}; its reading cannot be used.");
@@ -386,7 +400,12 @@ public sealed class Runner
             throw new SafetyAbortException("The drop voltmeter shows overload: the voltage across the UUT's jacks is above its range (an open fuse leaves the full supply voltage there).");
         }
 
-        return new Reading(at, drop, uutValue, referenceValue);
+        if (tap is not null && !double.IsFinite(tapValue))
+        {
+            throw new InvalidDataException($"The shunt tap voltmeter answered {(double.IsNaN(tapValue) ? "not-a-number" : "overload")} at {at:O}; its reading cannot be used.");
+        }
+
+        return new Reading(at, drop, uutValue, referenceValue, tapValue);
     }
 
     private async Task OutputsOffAsync(CancellationToken ct)
@@ -437,5 +456,5 @@ public sealed class Runner
         _ => step.GetType().Name,
     };
 
-    private readonly record struct Reading(DateTimeOffset At, double Drop, double Uut, double Reference);
+    private readonly record struct Reading(DateTimeOffset At, double Drop, double Uut, double Reference, double Tap);
 }

@@ -4,16 +4,23 @@ using ShuntSweep.Simulation.Scpi;
 
 namespace ShuntSweep.Simulation.Instruments;
 
-/// <summary>The simulated DC voltmeter across the UUT's jacks (resource <c>SIM::dmm</c>): range, NPLC, auto-zero, sample count, INITiate/FETCh?.</summary>
-/// <remarks>One sample integrates NPLC/line-frequency seconds (twice that with auto-zero on, which measures the zero too); noise falls as 1/√NPLC.</remarks>
+/// <summary>A simulated DC voltmeter: across the UUT's jacks (resource <c>SIM::dmm</c>) or tapped across the selected range's shunt
+/// (<c>SIM::tap</c>); range, NPLC, auto-zero, sample count, INITiate/FETCh?.</summary>
+/// <remarks>One sample integrates NPLC/line-frequency seconds (twice that with auto-zero on, which measures the zero too); noise falls as 1/√NPLC.
+/// Only the drop meter's input resistance loads the circuit: a tap meter is taken to be high-impedance against the shunt it spans.</remarks>
 internal static class VoltmeterInstrument
 {
     private const double DefaultNplc = 1;
 
-    /// <summary>Builds the voltmeter's SCPI front on <paramref name="circuit"/>.</summary>
-    public static ScpiInstrument Create(BenchCircuit circuit, IBenchClock clock, SeededRandom random)
+    /// <summary>Builds the SCPI front of a voltmeter on <paramref name="circuit"/> that reads <paramref name="probe"/> of the operating point.</summary>
+    /// <param name="circuit">The bench circuit.</param>
+    /// <param name="physics">The meter's noise, offsets and timing.</param>
+    /// <param name="probe">The voltage the meter's terminals see.</param>
+    /// <param name="rangeChanged">Told the range in use whenever it changes (the drop meter's input resistance depends on it).</param>
+    /// <param name="clock">The bench clock.</param>
+    /// <param name="random">The meter's noise source.</param>
+    public static ScpiInstrument Create(BenchCircuit circuit, VoltmeterPhysics physics, Func<OperatingPoint, double> probe, Action<double> rangeChanged, IBenchClock clock, SeededRandom random)
     {
-        var physics = circuit.Dmm ?? throw new InvalidOperationException("The bench has no voltmeter physics.");
         var state = new State();
         var measurement = new TriggeredMeasurement(circuit, clock);
         var ranges = VoltmeterPhysics.Ranges;
@@ -29,16 +36,16 @@ internal static class VoltmeterInstrument
             var requested = c.Number(index, ScpiUnit.Volt, 0, ranges[^1], 10);
             state.Auto = false;
             state.Range = ranges.First(r => r >= requested * (1 - 1e-9));
-            circuit.Change(b => b.DmmRange = state.Range);
+            rangeChanged(state.Range);
         }
 
         void Arm()
         {
             if (state.Auto)
             {
-                var present = Math.Abs(circuit.Present().JackVoltage);
+                var present = Math.Abs(probe(circuit.Present()));
                 state.Range = ranges.FirstOrDefault(r => present <= r * 1.1, ranges[^1]);
-                circuit.Change(b => b.DmmRange = state.Range);
+                rangeChanged(state.Range);
             }
 
             var range = state.Range;
@@ -52,7 +59,7 @@ internal static class VoltmeterInstrument
                 integration,
                 period,
                 TimeSpan.FromSeconds(physics.Overhead),
-                op => op.JackVoltage,
+                probe,
                 v =>
                 {
                     var reading = Math.Round((v + offset + (sigma * random.NextGaussian())) / resolution, MidpointRounding.AwayFromZero) * resolution;
@@ -126,7 +133,7 @@ internal static class VoltmeterInstrument
             {
                 state.Reset();
                 measurement.Clear();
-                circuit.Change(b => b.DmmRange = state.Range);
+                rangeChanged(state.Range);
             },
             measurement.WaitAsync);
     }

@@ -41,7 +41,7 @@ internal sealed class RangeAnalysis
         }
 
         PointTable.AssignWeights(points, options.ScatterModelDegreesOfFreedom);
-        var overload = ReadingOverload(points, spec);
+        var overload = ReadingOverload(points, samples, spec);
         var data = new DropData(
             points.Select(p => p.CurrentA).ToArray(),
             points.Select(p => p.DropVolts).ToArray(),
@@ -127,23 +127,26 @@ internal sealed class RangeAnalysis
         return (points, holds);
     }
 
-    private static double ReadingOverload(IReadOnlyList<MeasuredPoint> points, RangeSpec? spec)
+    /// <summary>The smallest |current| whose reading showed overload inside the display's own over-range, above every point that read;
+    /// NaN when there is none. Points where the UUT was not read at all (a hold that reads only the drop) say nothing either way.</summary>
+    private static double ReadingOverload(IReadOnlyList<MeasuredPoint> points, IReadOnlyList<Sample> samples, RangeSpec? spec)
     {
+        var overloadedSteps = samples.Where(s => double.IsInfinity(s.UutReading)).Select(s => s.Step).ToHashSet();
         var read = points.Where(p => double.IsFinite(p.ReadingA)).ToList();
-        var unread = points.Where(p => !double.IsFinite(p.ReadingA)).ToList();
-        if (read.Count < 2 || unread.Count == 0)
+        var overloaded = points.Where(p => overloadedSteps.Contains(p.Step)).ToList();
+        if (read.Count < 2 || overloaded.Count == 0)
         {
             return double.NaN;
         }
 
         var lastRead = read.Max(p => Math.Abs(p.CurrentA));
-        if (unread.Any(p => Math.Abs(p.CurrentA) <= lastRead))
+        if (overloaded.Any(p => Math.Abs(p.CurrentA) <= lastRead))
         {
-            // Readings missing below readings present: the UUT was not read there, which is no overload pattern.
+            // Overload below readings present is no amplifier limit (that would overload every current above it).
             return double.NaN;
         }
 
-        var first = unread.Min(p => Math.Abs(p.CurrentA));
+        var first = overloaded.Min(p => Math.Abs(p.CurrentA));
         var limit = spec is null ? double.PositiveInfinity : spec.FullScale.Amperes * (1 + spec.OverRange) * 0.999;
         return first < limit ? first : double.NaN;
     }

@@ -90,7 +90,7 @@ public sealed class ModelRecoveryTests
     public void Analyse_NamesAmplifiedShunt_WhenTheReadingOverloadsOverAnOhmicDrop()
     {
         // A 0.1 Ω shunt and a gain-100 amplifier whose output reaches its swing at 52 mA (first overloaded point 55 mA), below the 60 mA full scale.
-        var samples = Some.Sweep("60mA", "mA", Some.Linear(0, 0.06, 13), i => 0.1 * i, 5e-6, 5, new Random(2), reading: i => i < 0.052 ? i : double.NaN);
+        var samples = Some.Sweep("60mA", "mA", Some.Linear(0, 0.06, 13), i => 0.1 * i, 5e-6, 5, new Random(2), reading: i => i < 0.052 ? i : double.PositiveInfinity);
 
         var range = Assert.Single(Characteriser.Analyse(samples, null).Ranges);
 

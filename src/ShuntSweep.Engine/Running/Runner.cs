@@ -225,28 +225,20 @@ public sealed class Runner
     {
         var rule = m.Settings.Settling;
         var deadline = Clock.Now() + rule.MaxWait;
-        var recent = new Queue<double>();
-        while (true)
+        var started = Clock.Now();
+        var detector = new SettlingDetector(rule.AgreeCount, rule.Tolerance);
+        for (var count = 1; ; count++)
         {
             var r = await ReadTogetherAsync(Readings.Drop, ct);
-            recent.Enqueue(r.Drop);
-            if (recent.Count > rule.AgreeCount)
+            if (detector.Add(r.Drop))
             {
-                recent.Dequeue();
-            }
-
-            if (recent.Count == rule.AgreeCount)
-            {
-                var mean = recent.Average();
-                if (recent.Max() - recent.Min() <= rule.Tolerance * Math.Abs(mean))
-                {
-                    return;
-                }
+                _journal.Event("settled", new Dictionary<string, object?> { ["step"] = m.Index, ["readings"] = count, ["waitedS"] = (Clock.Now() - started).TotalSeconds, ["remainingV"] = detector.RemainingChange });
+                return;
             }
 
             if (Clock.Now() >= deadline)
             {
-                _journal.Event("not-settled", new Dictionary<string, object?> { ["step"] = m.Index, ["maxWaitS"] = rule.MaxWait.TotalSeconds });
+                _journal.Event("not-settled", new Dictionary<string, object?> { ["step"] = m.Index, ["maxWaitS"] = rule.MaxWait.TotalSeconds, ["remainingV"] = double.IsFinite(detector.RemainingChange) ? detector.RemainingChange : null });
                 return;
             }
         }

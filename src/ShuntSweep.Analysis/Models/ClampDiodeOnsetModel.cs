@@ -4,8 +4,8 @@ namespace ShuntSweep.Analysis.Models;
 /// (V = V₀ + V_sh, I = V_sh/R + 2·I_s·sinh(V_sh/(n·V_T))), for sweeps that end where the diodes only start to conduct.</summary>
 /// <remarks>Until the diodes clamp, the drop cannot tell the series part from the shunt: moving resistance between them is undone to first
 /// order by I_s and n (the five-parameter fit then has a near-singular covariance and one point carrying a parameter alone). Only the whole
-/// resistance, R·I_s and R/n are determined; this form fits those. Putting the series part R_s across the diodes overstates the shunt voltage
-/// by R_s·I, which lowers the fitted I_s by the factor exp(−R_s·I_max/(n·V_T)) (about 2 % for a 0.3 Ω fuse ahead of a 120 Ω shunt at 6 mA).</remarks>
+/// resistance, R·I_s and R/n are determined; this form fits those. Putting the series part R_s across the diodes moves the fitted I_s down
+/// and n up by the fraction R_s/R (0.25 % for a 0.3 Ω fuse ahead of a 120 Ω shunt).</remarks>
 internal sealed class ClampDiodeOnsetModel(double temperatureKelvin) : IDropModel
 {
     private readonly ClampDiodeModel _full = new(temperatureKelvin);

@@ -100,6 +100,19 @@ public sealed class ModelRecoveryTests
     }
 
     [Fact]
+    public void Analyse_NamesAmplifiedShunt_WhenAPointWithoutReadingsLiesBelowTheOverload()
+    {
+        // The same amplified shunt, plus a hold at 40 mA that read only the drop (its reading is "not read", NaN, not overload, +∞).
+        var samples = Some.Sweep("60mA", "mA", Some.Linear(0, 0.06, 13), i => 0.1 * i, 5e-6, 5, new Random(2), reading: i => i < 0.052 ? i : double.PositiveInfinity);
+        samples.AddRange(Some.Sweep("60mA", "mA", [0.04], i => 0.1 * i, 5e-6, 5, new Random(3), firstStep: 20));
+
+        var range = Assert.Single(Characteriser.Analyse(samples, null).Ranges);
+
+        Assert.Equal("amplified-shunt", range.Model);
+        Assert.Equal(0.055, range.ReadingLimitA, 9);
+    }
+
+    [Fact]
     public void AmplifiedShunt_WithGain100_CutsTheDropAbout100Times()
     {
         // Common practice, no source: a gain-100 amplifier after the shunt allows a shunt 100× smaller for the same signal, so ~100× less burden.

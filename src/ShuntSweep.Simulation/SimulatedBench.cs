@@ -109,6 +109,45 @@ public sealed class SimulatedBench : IAsyncDisposable
         _circuit.Change(c => c.Uut.Selected = r);
     }
 
+    /// <summary>Ground truth for insertion-error checks: puts <paramref name="range"/> in series with a Thevenin source of
+    /// <paramref name="volts"/> behind <paramref name="ohms"/> (no bench instruments) and lets every self-heating part reach its steady state.</summary>
+    /// <returns>The current, the drop across the jacks, and the UUT's noiseless reading (±infinity on overload).</returns>
+    /// <remarks>The loop is solved on the simulator's own physics (front end, clamp diodes, fuse and contacts) by bisection on the range
+    /// voltage, alternated with moving each heated part to its steady temperature until the current stops changing. It leaves the simulated
+    /// unit in that thermal state, so use a bench of its own for it.</remarks>
+    public (Current Current, Voltage Drop, double Reading) SteadyStateInCircuit(string range, Voltage volts, Resistance ohms) => _circuit.At(c =>
+    {
+        var r = c.Uut.Range(range);
+        var fuse = r.Jack.Fuse.Element;
+        double Jack(double x) => x + (r.CurrentAt(x) * (fuse.Resistance + r.Jack.Contacts));
+        double Loop(double x) => (r.CurrentAt(x) * ohms.Ohms) + Jack(x) - volts.Volts;
+        var x = 0.0;
+        var current = double.NaN;
+        for (var iteration = 0; iteration < 1000; iteration++)
+        {
+            double lo = 0, hi = volts.Volts;
+            for (var k = 0; k < 200 && hi - lo > 1e-16 * volts.Volts; k++)
+            {
+                var mid = 0.5 * (lo + hi);
+                (lo, hi) = Loop(mid) > 0 ? (lo, mid) : (mid, hi);
+            }
+
+            x = 0.5 * (lo + hi);
+            var next = r.CurrentAt(x);
+            const double forEver = 1e9;
+            fuse.Advance(next * next * fuse.Resistance, forEver);
+            r.FrontEnd.Advance(x, forEver);
+            if (Math.Abs(next - current) <= 1e-13 * Math.Abs(next))
+            {
+                break;
+            }
+
+            current = next;
+        }
+
+        return (new Current(r.CurrentAt(x)), new Voltage(Jack(x)), r.NoiselessDisplay(r.FrontEnd.Sensed(x)));
+    });
+
     /// <summary>The true voltage across the UUT's jacks and current through them at the clock's present.</summary>
     public (Voltage Drop, Current Current) Truth()
     {

@@ -1,17 +1,20 @@
 namespace ShuntSweep.Engine.Running;
 
 /// <summary>Decides when a drop that is still drifting thermally has settled: the last readings agree, and the change still to come,
-/// extrapolated from the geometric decay of the means of three successive thirds of the wait (Aitken's Δ²), is within the tolerance.</summary>
+/// extrapolated from the geometric decay of the means of successive quarters of the wait (Aitken's Δ²), is within the tolerance.</summary>
 /// <remarks>Agreement alone stops too early on a slow exponential: consecutive readings differ by far less than what is left of the step.
-/// A first-order thermal drift decays geometrically from one third of the wait to the next (ratio q = e^(−T/τ)), so the change still to
-/// come is d₂·q/(1 − q), with d₁, d₂ the differences of the thirds' means and q = d₂/d₁. The thirds grow with the wait, so a slow drift
-/// shows once the wait is a fair fraction of its time constant. q is taken at its upper bound (each difference moved by its noise
-/// towards q = 1), so noise never makes a drift look settled; differences within noise count as settled, a drift that does not
-/// decay does not.</remarks>
+/// A first-order thermal drift decays geometrically from one quarter of the wait to the next (ratio q = e^(−T/τ)), so the change still
+/// to come is d₂·q/(1 − q), with d₁, d₂ successive differences of the quarters' means and q = d₂/d₁. The quarters grow with the wait,
+/// so a slow drift shows once the wait is a fair fraction of its time constant. Both triples of quarters are extrapolated and the
+/// larger answer counts: when a fast element (a fuse) and a slow one (a shunt) drift together, the latest triple alone still sees the
+/// fast decay in its first difference and underestimates the slow remainder. q is taken at its upper bound (each difference moved by
+/// its noise towards q = 1), so noise never makes a drift look settled; differences within noise count as settled, a drift that does
+/// not decay does not.</remarks>
 internal sealed class SettlingDetector
 {
     private readonly int _window;
     private readonly double _tolerance;
+    private const int Parts = 4;
     private readonly List<double> _readings = [];
 
     /// <summary>Creates a detector whose last <paramref name="window"/> readings must agree within the relative <paramref name="tolerance"/>.</summary>
@@ -31,8 +34,8 @@ internal sealed class SettlingDetector
     {
         _readings.Add(reading);
         var n = _readings.Count;
-        var third = n / 3;
-        if (third < Math.Max(_window, 3))
+        var quarter = n / Parts;
+        if (quarter < Math.Max(_window, 3))
         {
             return false;
         }
@@ -44,13 +47,13 @@ internal sealed class SettlingDetector
             return false;
         }
 
-        // Three equal windows ending at the last reading (the oldest n mod 3 readings are left out).
-        var from = n - (3 * third);
-        var m1 = Mean(from, third);
-        var m2 = Mean(from + third, third);
-        var m3 = Mean(from + (2 * third), third);
-        var noise = Math.Sqrt(2) * NoiseOfWindowMean(from, third);
-        RemainingChange = Remaining(m2 - m1, m3 - m2, noise);
+        // Equal quarters ending at the last reading (the oldest n mod 4 readings are left out).
+        var from = n - (Parts * quarter);
+        var means = Enumerable.Range(0, Parts).Select(k => Mean(from + (k * quarter), quarter)).ToArray();
+        var noise = Math.Sqrt(2) * NoiseOfWindowMean(from, quarter);
+        RemainingChange = Enumerable.Range(0, Parts - 2)
+            .Select(k => Remaining(means[k + 1] - means[k], means[k + 2] - means[k + 1], noise))
+            .Max();
         return RemainingChange <= limit;
     }
 
@@ -91,7 +94,7 @@ internal sealed class SettlingDetector
     {
         double sum = 0;
         var dof = 0;
-        for (var w = 0; w < 3; w++)
+        for (var w = 0; w < Parts; w++)
         {
             var start = from + (w * count);
             var xm = (count - 1) / 2.0;

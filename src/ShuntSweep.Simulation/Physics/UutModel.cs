@@ -44,16 +44,22 @@ internal sealed class UutRange(RangeSpec spec, UutJack jack, IFrontEnd frontEnd,
     public double CurrentAt(double volts) => FrontEnd.CurrentAt(volts) + (Diodes?.CurrentAt(volts) ?? 0);
 
     /// <summary>The displayed value for a sensed current: errors, noise, quantisation to counts, overload beyond full scale plus over-range.</summary>
-    public double Display(double sensed, SeededRandom random)
+    public double Display(double sensed, SeededRandom random) =>
+        double.IsFinite(sensed) ? Shown(sensed, NoiseCounts * Spec.Resolution.Amperes * random.NextGaussian()) : Shown(sensed, 0);
+
+    /// <summary>The displayed value without reading noise (ground truth for tests).</summary>
+    public double NoiselessDisplay(double sensed) => Shown(sensed, 0);
+
+    private double Shown(double sensed, double noise)
     {
-        var resolution = Spec.Resolution.Amperes;
-        var limit = Spec.FullScale.Amperes * (1 + Spec.OverRange);
         if (!double.IsFinite(sensed))
         {
             return double.IsNaN(sensed) ? double.NaN : (sensed > 0 ? double.PositiveInfinity : double.NegativeInfinity);
         }
 
-        var value = (sensed * (1 + GainError)) + Offset + (NoiseCounts * resolution * random.NextGaussian());
+        var resolution = Spec.Resolution.Amperes;
+        var limit = Spec.FullScale.Amperes * (1 + Spec.OverRange);
+        var value = (sensed * (1 + GainError)) + Offset + noise;
         var counts = Math.Round(value / resolution, MidpointRounding.AwayFromZero);
         var shown = counts * resolution;
         return Math.Abs(shown) > limit ? (shown > 0 ? double.PositiveInfinity : double.NegativeInfinity) : shown;

@@ -85,6 +85,24 @@ public sealed class ModelChoiceTests
         Assert.Contains(ranges["60mA"].Model, Thermal);
     }
 
+    [Fact]
+    public async Task Lx1RnD_RecoversTheKneeTheFeedbackResistorAndTheHeatingFuse()
+    {
+        var dir = Some.TempDirectory();
+        Assert.Equal(0, await Cli.RunAsync("run", Repo.File("sequences/rnd-wide-range-lx1.yaml"), "--bench", Repo.File("simulators/frontend-kestrel-lx1-proto.yaml"), "--out", dir, "--seed", "7"));
+        var ranges = ResultJson.Read(Path.Combine(dir, "result.json")).Ranges.ToDictionary(r => r.Name);
+        double P(string range, string name) => ranges[range].Parameters!.Single(p => p.Name == name).Value;
+
+        // The bench file: R_f = 10 kΩ and a 1.2 V swing (knee at 120 µA); the IN fuse 60 mΩ with α = 0.0039 /K and R_th = 600 K/W
+        // (β = α·R_th·R = 0.1404 A⁻²). Within 0.1 % (measured with seed 7: 0.0001 %, 0.005 %, 0.005 % and 0.004 %).
+        Assert.Equal("feedback-knee", ranges["100uA"].Model);
+        Assert.Equal(120e-6, P("100uA", "kneeCurrent"), 120e-6 * 1e-3);
+        Assert.Equal(10e3, P("100uA", "highResistance"), 10e3 * 1e-3);
+        Assert.Equal("heated-element", ranges["1A"].Model);
+        Assert.Equal(0.060, P("1A", "heatedResistance"), 0.060 * 1e-3);
+        Assert.Equal(0.0039 * 600 * 0.060, P("1A", "heatingCoefficient"), 0.1404 * 1e-3);
+    }
+
     /// <summary>What the simulated range's physics makes visible at the top of its sweep, from the bench file's <c>simulation:</c> section
     /// (the same keys and defaults the simulator reads, docs/simulation.md).</summary>
     /// <param name="Expected">The models the visible behaviour allows; any of them is right.</param>

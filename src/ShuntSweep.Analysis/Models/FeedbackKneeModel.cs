@@ -1,11 +1,14 @@
 namespace ShuntSweep.Analysis.Models;
 
 /// <summary>A feedback (transimpedance) ammeter: V = V₀ + R_lo·I until |I| reaches the knee where the amplifier saturates,
-/// then the drop rises with R_hi (the feedback resistor); the knee is rounded by a softplus of width 2 % of I_k.</summary>
+/// then the drop rises with R_hi (the feedback resistor); the knee is rounded by a softplus of width 0.02 % of I_k.</summary>
+/// <remarks>An amplifier's output saturates within millivolts of its swing, so the knee is sharp: a wider rounding (say 2 %) misfits the
+/// points just above the knee by far more than a voltmeter's noise and drags the low resistance with it. The rounding only keeps the
+/// model differentiable; knee and slope above it need at least two points above the knee.</remarks>
 internal sealed class FeedbackKneeModel : IDropModel
 {
-    /// <summary>The knee's rounding width as a fraction of the knee current.</summary>
-    public const double KneeWidth = 0.02;
+    /// <summary>The knee's rounding width as a fraction of the knee current (0.02 %).</summary>
+    public const double KneeWidth = 0.0002;
 
     public string Name => "feedback-knee";
 

@@ -73,8 +73,8 @@ public sealed class ModelRecoveryTests
     [Fact]
     public void Analyse_RecoversFeedbackKnee()
     {
-        // Transimpedance front end: R_f = 1 kΩ, A_OL = 1e6 (drop 1 mΩ·I), output swing 10 V → knee at 10 mA, rounded over 2 % of it.
-        const double rlo = 1e-3, ik = 0.01, rhi = 1000, w = 0.02 * ik;
+        // Transimpedance front end: R_f = 1 kΩ, A_OL = 1e6 (drop 1 mΩ·I), output swing 10 V → knee at 10 mA, rounded as the model rounds it.
+        const double rlo = 1e-3, ik = 0.01, rhi = 1000, w = FeedbackKneeModel.KneeWidth * ik;
         static double Softplus(double z) => z > 30 ? z : Math.Log(1 + Math.Exp(z));
         var samples = Some.Sweep("10mA", "uA", Some.Linear(0, 0.015, 31), i => 5e-6 + (rlo * i) + ((rhi - rlo) * w * Softplus((i - ik) / w)), 10e-6, 5, new Random(21));
 

@@ -268,7 +268,7 @@ internal static class JackDecomposer
     private static Separation Make(string hypothesis, Estimate common, Dictionary<string, Estimate> shunts, double chi2, int dof, Dictionary<string, Estimate>? extra)
     {
         var p = dof > 0 ? 1 - ChiSquared.CDF(dof, chi2) : double.NaN;
-        return new Separation(hypothesis, common, shunts, chi2, dof, p, dof == 0 || p >= 0.05, extra);
+        return new Separation(hypothesis, common, shunts, chi2, dof, p, dof > 0 ? p >= 0.05 : null, extra);
     }
 
     private static LinearFit ExactLine(double[] x, double[] y, double[] w)

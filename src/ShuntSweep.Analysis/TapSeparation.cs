@@ -7,18 +7,12 @@ using ShuntSweep.Core.Records;
 namespace ShuntSweep.Analysis;
 
 /// <summary>A range's drop split by a tap voltmeter across its shunt: the shunt's part is read directly, the jack's series part
-/// (fuse, contacts) is the drop minus the tap, sample by sample; each part is fitted with the drop models on its own.</summary>
+/// (fuse, contacts) is the drop minus the tap, sample by sample; each part is fitted with the drop models on its own
+/// (the tap against current, drop minus tap against current).</summary>
 /// <param name="Range">The range.</param>
-/// <param name="Shunt">The fit of the tap voltage against current.</param>
-/// <param name="Series">The fit of drop minus tap against current.</param>
-internal sealed record TapFit(string Range, CandidateFit Shunt, CandidateFit Series)
-{
-    /// <summary>The shunt's small-signal resistance at zero current.</summary>
-    public Estimate ShuntOhms => new(Shunt.Model.SmallSignalResistance(Shunt.Parameters), Shunt.ResistanceUncertainty());
-
-    /// <summary>The series part's small-signal (cold) resistance.</summary>
-    public Estimate SeriesOhms => new(Series.Model.SmallSignalResistance(Series.Parameters), Series.ResistanceUncertainty());
-}
+/// <param name="ShuntOhms">The shunt's small-signal resistance at zero current, its uncertainty covering the choice of model.</param>
+/// <param name="SeriesOhms">The series part's small-signal (cold) resistance, likewise.</param>
+internal sealed record TapFit(string Range, Estimate ShuntOhms, Estimate SeriesOhms);
 
 /// <summary>Separates shunt from series part with the tap voltmeter, where the bench has one: no hypothesis about nominal values or
 /// about which element heats is needed, only that the tap spans the shunt alone; the series parts of a jack's ranges must then agree.</summary>
@@ -47,7 +41,7 @@ internal static class TapSeparation
             return null;
         }
 
-        return new TapFit(range, Choose(shunt, options), Choose(series, options));
+        return new TapFit(range, Resistance(shunt, options), Resistance(series, options));
     }
 
     /// <summary>The separation of one jack from its ranges' tap fits: each shunt from its tap, the common series part as the weighted mean
@@ -75,7 +69,7 @@ internal static class TapSeparation
             chi2,
             dof,
             p,
-            dof == 0 || p >= 0.05,
+            dof > 0 ? p >= 0.05 : null,
             extra);
     }
 
@@ -100,10 +94,10 @@ internal static class TapSeparation
             double.NaN);
     }
 
-    private static CandidateFit Choose(DropData data, AnalysisOptions options)
+    private static Estimate Resistance(DropData data, AnalysisOptions options)
     {
         var candidates = DropModels.All(options.DiodeTemperatureKelvin).Where(m => m.ParameterCount < data.Current.Length);
         var fits = candidates.Select(m => DropFitter.Fit(m, data)).ToList();
-        return DropFitter.Choose(fits, options.ModelSignificance).Chosen;
+        return DropFitter.ResistanceWithModelUncertainty(fits, DropFitter.Choose(fits, options.ModelSignificance).Chosen);
     }
 }

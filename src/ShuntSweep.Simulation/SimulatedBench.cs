@@ -96,6 +96,9 @@ public sealed class SimulatedBench : IAsyncDisposable
     /// <summary>The cold resistance of the fuse of <paramref name="jack"/> (ground truth for tests).</summary>
     public Resistance FuseColdResistance(string jack) => new(_circuit.Uut.Jack(jack).Fuse.Element.ColdResistance);
 
+    /// <summary>The contact and internal wiring resistance in series with <paramref name="jack"/> (ground truth for tests).</summary>
+    public Resistance ContactResistance(string jack) => new(_circuit.Uut.Jack(jack).Contacts);
+
     /// <summary>True when the fuse of <paramref name="jack"/> has opened.</summary>
     public bool IsFuseOpen(string jack) => _circuit.At(c => c.Uut.Jack(jack).Fuse.IsOpen);
 

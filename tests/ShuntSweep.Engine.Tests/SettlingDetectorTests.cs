@@ -75,7 +75,22 @@ public sealed class SettlingDetectorTests
             Assert.True(k < 100, "a steady level did not settle");
         }
 
-        Assert.Equal(15, k);
+        // Four windows of four readings after the first third of the wait: 23 readings.
+        Assert.Equal(22, k);
+    }
+
+    [Fact]
+    public void ToleranceFinerThanTheNoise_IsReplacedByTheNoise_SoASteadyLevelStillSettles()
+    {
+        // 1 ppb of 10 µV is far below the 30 nV noise of each reading: the noise is all that can be shown.
+        var rng = new Random(6);
+        var detector = new SettlingDetector(4, 1e-9);
+        var k = 0;
+        while (!detector.Add(10e-6 + (30e-9 * Gaussian(rng))))
+        {
+            k++;
+            Assert.True(k < 200, "a steady level never settled under a tolerance finer than the noise");
+        }
     }
 
     [Fact]

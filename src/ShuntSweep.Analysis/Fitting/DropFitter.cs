@@ -144,6 +144,38 @@ internal static class DropFitter
         return (chosen, runnerUp);
     }
 
+    /// <summary>The chosen model's small-signal resistance, with an uncertainty that also covers the choice of model: the Akaike-weighted
+    /// spread of every fitted model's value about it (Burnham and Anderson's unconditional variance, centred on the chosen model).</summary>
+    /// <remarks>When a simpler model wins by a hair (say ΔAICc &lt; 2 against a heating model), the data cannot tell the two apart, yet their
+    /// resistances can differ by more than either's own uncertainty; a model that loses by a wide margin gets a negligible weight.</remarks>
+    public static Results.Estimate ResistanceWithModelUncertainty(IReadOnlyList<CandidateFit> fits, CandidateFit chosen)
+    {
+        ArgumentNullException.ThrowIfNull(fits);
+        ArgumentNullException.ThrowIfNull(chosen);
+        var value = chosen.Model.SmallSignalResistance(chosen.Parameters);
+        var usable = fits.Where(f => f.Succeeded && double.IsFinite(f.Aicc)).ToList();
+        if (!usable.Contains(chosen))
+        {
+            return new Results.Estimate(value, chosen.ResistanceUncertainty());
+        }
+
+        var best = usable.Min(f => f.Aicc);
+        var weights = usable.Select(f => Math.Exp(-(f.Aicc - best) / 2)).ToArray();
+        var total = weights.Sum();
+        var u = 0.0;
+        for (var m = 0; m < usable.Count; m++)
+        {
+            var r = usable[m].Model.SmallSignalResistance(usable[m].Parameters);
+            var um = usable[m].ResistanceUncertainty();
+            if (double.IsFinite(r) && double.IsFinite(um))
+            {
+                u += weights[m] / total * Math.Sqrt((um * um) + ((r - value) * (r - value)));
+            }
+        }
+
+        return new Results.Estimate(value, Math.Max(u, chosen.ResistanceUncertainty()));
+    }
+
     /// <summary>The two-parameter straight line every curved model is F-tested against (ohmic, or the amplified shunt in its place).</summary>
     public static CandidateFit? BaseFit(IReadOnlyList<CandidateFit> fits)
     {

@@ -188,7 +188,7 @@ public sealed record JackDecomposition(string Jack, IReadOnlyList<string> Ranges
 /// <param name="ChiSquare">χ² of the hypothesis against the per-range fits.</param>
 /// <param name="DegreesOfFreedom">Its degrees of freedom (0: exactly determined, no check possible).</param>
 /// <param name="PValue">P(χ²_ν ≥ χ²): small values reject the hypothesis.</param>
-/// <param name="Consistent">Whether p ≥ 0.05 (or no check was possible).</param>
+/// <param name="Consistent">Whether p ≥ 0.05; null when the separation is exactly determined and no check is possible.</param>
 /// <param name="Extra">Further quantities of the separation (heating coefficient, shunt scale), by name.</param>
 public sealed record Separation(
     string Hypothesis,
@@ -197,5 +197,5 @@ public sealed record Separation(
     double ChiSquare,
     int DegreesOfFreedom,
     double PValue,
-    bool Consistent,
+    bool? Consistent,
     IReadOnlyDictionary<string, Estimate>? Extra = null);

@@ -227,10 +227,15 @@ public sealed class Runner
         var deadline = Clock.Now() + rule.MaxWait;
         var started = Clock.Now();
         var detector = new SettlingDetector(rule.AgreeCount, rule.Tolerance);
+
+        // A shunt tap inside the UUT is waited for too: its slow shunt can still drift when the whole drop, dominated by the fuse, has settled.
+        var tapDetector = _bench.ShuntTap is null ? null : new SettlingDetector(rule.AgreeCount, rule.Tolerance);
         for (var count = 1; ; count++)
         {
-            var r = await ReadTogetherAsync(Readings.Drop, ct);
-            if (detector.Add(r.Drop))
+            var r = await ReadTogetherAsync(Readings.Drop, ct, withTap: tapDetector is not null);
+            var dropSettled = detector.Add(r.Drop);
+            var tapSettled = tapDetector?.Add(r.Tap) ?? true;
+            if (dropSettled && tapSettled)
             {
                 _journal.Event("settled", new Dictionary<string, object?> { ["step"] = m.Index, ["readings"] = count, ["waitedS"] = (Clock.Now() - started).TotalSeconds, ["remainingV"] = detector.RemainingChange });
                 return;

@@ -1,15 +1,17 @@
 namespace ShuntSweep.Engine.Running;
 
 /// <summary>Decides when a drop that is still drifting thermally has settled: the last readings agree, and the change still to come,
-/// extrapolated from the geometric decay of the means of successive quarters of the wait (Aitken's Δ²), is within the tolerance.</summary>
+/// extrapolated from the geometric decay of the means of successive quarters of the later two thirds of the wait (Aitken's Δ²),
+/// is within the tolerance.</summary>
 /// <remarks>Agreement alone stops too early on a slow exponential: consecutive readings differ by far less than what is left of the step.
 /// A first-order thermal drift decays geometrically from one quarter of the wait to the next (ratio q = e^(−T/τ)), so the change still
 /// to come is d₂·q/(1 − q), with d₁, d₂ successive differences of the quarters' means and q = d₂/d₁. The quarters grow with the wait,
-/// so a slow drift shows once the wait is a fair fraction of its time constant. Both triples of quarters are extrapolated and the
-/// larger answer counts: when a fast element (a fuse) and a slow one (a shunt) drift together, the latest triple alone still sees the
-/// fast decay in its first difference and underestimates the slow remainder. q is taken at its upper bound (each difference moved by
-/// its noise towards q = 1), so noise never makes a drift look settled; differences within noise count as settled, a drift that does
-/// not decay does not.</remarks>
+/// so a slow drift shows once the wait is a fair fraction of its time constant. When a fast element (a fuse) and a slow one (a shunt)
+/// drift together, the ratio rises from one triple of quarters to the next until the slow element alone is left; while it still
+/// clearly rises the drift is not settled, and then both triples are extrapolated and the larger answer counts. q is taken at its
+/// upper bound (each difference moved by its noise towards q = 1), so noise never makes a drift look settled; differences within noise
+/// count as settled, a drift that does not decay does not. A tolerance finer than the meter's noise is replaced by the noise, which is
+/// all that can be shown.</remarks>
 internal sealed class SettlingDetector
 {
     private readonly int _window;
@@ -34,27 +36,50 @@ internal sealed class SettlingDetector
     {
         _readings.Add(reading);
         var n = _readings.Count;
-        var quarter = n / Parts;
+        // The first third of the wait is left out: it holds the fastest part of the step, which says nothing of what is still to come.
+        var quarter = (n - (n / 3)) / Parts;
         if (quarter < Math.Max(_window, 3))
         {
             return false;
         }
 
+        // Equal quarters of the rest, ending at the last reading.
+        var from = n - (Parts * quarter);
+        var noiseOfMean = NoiseOfWindowMean(from, quarter);
+        var noiseOfDifference = Math.Sqrt(2) * noiseOfMean;
+
+        // A tolerance finer than the meter's own noise cannot be shown to hold: the noise sets the limit then (the range of a few
+        // normal readings stays within 4.5 σ all but rarely).
         var last = _readings.GetRange(n - _window, _window);
         var limit = _tolerance * Math.Abs(last.Average());
-        if (last.Max() - last.Min() > limit)
+        if (last.Max() - last.Min() > Math.Max(limit, 4.5 * noiseOfMean * Math.Sqrt(quarter)))
         {
             return false;
         }
 
-        // Equal quarters ending at the last reading (the oldest n mod 4 readings are left out).
-        var from = n - (Parts * quarter);
         var means = Enumerable.Range(0, Parts).Select(k => Mean(from + (k * quarter), quarter)).ToArray();
-        var noise = Math.Sqrt(2) * NoiseOfWindowMean(from, quarter);
-        RemainingChange = Enumerable.Range(0, Parts - 2)
-            .Select(k => Remaining(means[k + 1] - means[k], means[k + 2] - means[k + 1], noise))
-            .Max();
-        return RemainingChange <= limit;
+        var d = Enumerable.Range(0, Parts - 1).Select(k => means[k + 1] - means[k]).ToArray();
+        RemainingChange = StillChangingItsRate(d, noiseOfDifference)
+            ? double.PositiveInfinity
+            : Enumerable.Range(0, Parts - 2).Select(k => Remaining(d[k], d[k + 1], noiseOfDifference)).Max();
+        return RemainingChange <= Math.Max(limit, 2 * noiseOfDifference);
+    }
+
+    /// <summary>True while the decay ratio is still clearly rising from one triple of quarters to the next: a fast and a slow element
+    /// together, whose slow remainder any single-exponential extrapolation underestimates (the ratios of a sum of decays only grow).</summary>
+    private static bool StillChangingItsRate(double[] d, double noise)
+    {
+        for (var k = 0; k + 2 < d.Length; k++)
+        {
+            var earlierUpper = (Math.Abs(d[k + 1]) + noise) / Math.Max(Math.Abs(d[k]) - noise, double.Epsilon);
+            var laterLower = (Math.Abs(d[k + 2]) - noise) / (Math.Abs(d[k + 1]) + noise);
+            if (Math.Abs(d[k + 1]) > 2 * noise && laterLower > earlierUpper)
+            {
+                return true;
+            }
+        }
+
+        return false;
     }
 
     private static double Remaining(double d1, double d2, double noise)
@@ -89,33 +114,19 @@ internal sealed class SettlingDetector
         return sum / count;
     }
 
-    /// <summary>The standard deviation of one window's mean, from the scatter of the readings about each window's own straight line.</summary>
+    /// <summary>The standard deviation of one window's mean, from the second differences of the readings in the last window, where the
+    /// drift is least: a second difference cancels a level and a slope, and its variance is 6σ² for independent readings.</summary>
     private double NoiseOfWindowMean(int from, int count)
     {
+        var start = from + ((Parts - 1) * count);
         double sum = 0;
-        var dof = 0;
-        for (var w = 0; w < Parts; w++)
+        for (var i = start + 1; i < start + count - 1; i++)
         {
-            var start = from + (w * count);
-            var xm = (count - 1) / 2.0;
-            var ym = Mean(start, count);
-            double sxy = 0, sxx = 0;
-            for (var i = 0; i < count; i++)
-            {
-                sxy += (i - xm) * (_readings[start + i] - ym);
-                sxx += (i - xm) * (i - xm);
-            }
-
-            var slope = sxy / sxx;
-            for (var i = 0; i < count; i++)
-            {
-                var e = _readings[start + i] - ym - (slope * (i - xm));
-                sum += e * e;
-            }
-
-            dof += count - 2;
+            var d = _readings[i + 1] - (2 * _readings[i]) + _readings[i - 1];
+            sum += d * d;
         }
 
-        return Math.Sqrt(sum / dof / count);
+        var variance = sum / (count - 2) / 6;
+        return Math.Sqrt(variance / count);
     }
 }

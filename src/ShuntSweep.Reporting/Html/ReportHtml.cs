@@ -264,7 +264,12 @@ internal static class ReportHtml
                     string.Join("<br>", s.ShuntOhms.Select(kv => E($"{kv.Key}: {Q(kv.Value.Value, SiUnit.Ohm, 5)} ± {Q(kv.Value.StandardUncertainty, SiUnit.Ohm, 2)}"))),
                     E($"{N(s.ChiSquare, "0.###")} / {s.DegreesOfFreedom}"),
                     E(s.DegreesOfFreedom > 0 ? N(s.PValue, "0.###") : "no check possible"),
-                    s.Consistent ? "<span class=\"tag ok\">yes</span>" : "<span class=\"tag out\">no</span>",
+                    s.Consistent switch
+                    {
+                        true => "<span class=\"tag ok\">yes</span>",
+                        false => "<span class=\"tag out\">no</span>",
+                        null => "<span class=\"tag near\">unchecked</span>",
+                    },
                     s.Extra is { Count: > 0 } extra ? string.Join("<br>", extra.Select(kv => E($"{kv.Key}: {N(kv.Value.Value, "G5")} ± {N(kv.Value.StandardUncertainty, "G2")}"))) : "—",
                 ]));
         }

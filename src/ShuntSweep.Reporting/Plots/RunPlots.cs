@@ -191,7 +191,7 @@ internal static class RunPlots
         var position = 0.0;
         foreach (var jack in jacks)
         {
-            var separation = jack.Separations.FirstOrDefault(s => s.Consistent) ?? (jack.Separations.Count > 0 ? jack.Separations[0] : null);
+            var separation = jack.Separations.FirstOrDefault(s => s.Consistent == true) ?? (jack.Separations.Count > 0 ? jack.Separations[0] : null);
             if (separation is null)
             {
                 continue;

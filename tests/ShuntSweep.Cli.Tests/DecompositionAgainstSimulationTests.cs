@@ -1,0 +1,85 @@
+using ShuntSweep.Analysis;
+using ShuntSweep.Analysis.Results;
+using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Timing;
+using ShuntSweep.Simulation;
+using ShuntSweep.Testing;
+using Xunit;
+
+namespace ShuntSweep.Cli.Tests;
+
+public sealed class DecompositionAgainstSimulationTests
+{
+    [Fact]
+    public async Task ShuntTap_OnTheLx1_RecoversEveryShuntAndEachJacksFuseAndContacts_WithinExpandedUncertainty()
+    {
+        var bench = Repo.File("simulators/frontend-kestrel-lx1-proto.yaml");
+        var result = await RunAsync("sequences/rnd-wide-range-lx1.yaml", bench);
+        await using var truth = Truth(bench);
+
+        var misses = new List<string>();
+        foreach (var jack in result.Decomposition!)
+        {
+            var tap = jack.Separations.Single(s => s.Hypothesis.StartsWith("a tap voltmeter", StringComparison.Ordinal));
+            Assert.NotEqual(false, tap.Consistent);
+
+            // Ground truth from the simulation section: the jack's fuse (as built for this seed) plus its contacts, and each range's front end.
+            var series = truth.FuseColdResistance(jack.Jack).Ohms + truth.ContactResistance(jack.Jack).Ohms;
+            Expect(misses, $"{jack.Jack} series part", series, tap.CommonSeriesOhms);
+            foreach (var (range, shunt) in tap.ShuntOhms)
+            {
+                Expect(misses, $"{range} shunt", truth.ExpectedSeriesResistance(range).Ohms - series, shunt);
+            }
+        }
+
+        Assert.True(misses.Count == 0, string.Join("; ", misses));
+    }
+
+    [Fact]
+    public async Task Tw18Demo_RejectsTheHypothesesItsUnitBreaks_AndEveryConsistentOneHoldsTheTruth()
+    {
+        var bench = Repo.File("simulators/handheld-tarnwell-tw18.yaml");
+        var result = await RunAsync("sequences/demo-handheld.yaml", bench);
+        await using var truth = Truth(bench);
+
+        // The simulated TW-18's shunts are off their nominal values by up to their 0.2 % tolerance, and its 10 A shunt heats along
+        // with the fuse: the nominal-shunt hypothesis on the mA jack and the fuse-only heating hypothesis on the 10A jack are false.
+        var mA = result.Decomposition!.Single(d => d.Jack == "mA");
+        Assert.Equal(false, mA.Separations.Single(s => s.Hypothesis.StartsWith("each shunt is at its nominal", StringComparison.Ordinal)).Consistent);
+        var tenA = result.Decomposition!.Single(d => d.Jack == "10A");
+        Assert.Equal(false, tenA.Separations.Single(s => s.Hypothesis.StartsWith("only the jack's common element", StringComparison.Ordinal)).Consistent);
+
+        // One range on a jack leaves the nominal hypothesis exactly determined: no check, so it must not claim consistency.
+        Assert.Null(tenA.Separations.Single(s => s.Hypothesis.StartsWith("each shunt is at its nominal", StringComparison.Ordinal)).Consistent);
+
+        var misses = new List<string>();
+        foreach (var jack in result.Decomposition!)
+        {
+            foreach (var s in jack.Separations.Where(s => s.Consistent == true))
+            {
+                var fuse = truth.FuseColdResistance(jack.Jack).Ohms;
+                var expected = s.Hypothesis.StartsWith("only the jack's common element", StringComparison.Ordinal) ? fuse : fuse + truth.ContactResistance(jack.Jack).Ohms;
+                Expect(misses, $"{jack.Jack}: {s.Hypothesis}", expected, s.CommonSeriesOhms);
+            }
+        }
+
+        Assert.True(misses.Count == 0, string.Join("; ", misses));
+    }
+
+    private static void Expect(List<string> misses, string what, double expected, Estimate fitted)
+    {
+        if (Math.Abs(fitted.Value - expected) > 2 * fitted.StandardUncertainty)
+        {
+            misses.Add($"{what}: fitted {fitted.Value:G8} ± {2 * fitted.StandardUncertainty:G3} Ω (k = 2), configured {expected:G8} Ω");
+        }
+    }
+
+    private static SimulatedBench Truth(string bench) => SimulatedBench.Create(BenchReader.Load(bench), new VirtualBenchClock(new VirtualTimeProvider()), 7);
+
+    private static async Task<CharacterisationResult> RunAsync(string sequence, string bench)
+    {
+        var dir = Some.TempDirectory();
+        Assert.Equal(0, await Cli.RunAsync("run", Repo.File(sequence), "--bench", bench, "--out", dir, "--seed", "7"));
+        return ResultJson.Read(Path.Combine(dir, "result.json"));
+    }
+}

@@ -72,7 +72,7 @@ internal sealed class RangeAnalysis
             jack,
             fullScale,
             chosen.Model.Name,
-            DropFitter.ResistanceWithModelUncertainty(fits, chosen),
+            DropFitter.ModelAveragedResistance(fits, chosen),
             new Estimate(chosen.Parameters[0], Math.Sqrt(chosen.Covariance[0, 0])),
             Diagnostics.RootMeanSquare(chosen.Residuals, chosen.DegreesOfFreedom),
             chosen.Model.Evaluate(fullScale, chosen.Parameters, []),

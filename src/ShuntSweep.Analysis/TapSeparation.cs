@@ -98,6 +98,6 @@ internal static class TapSeparation
     {
         var candidates = DropModels.All(options.DiodeTemperatureKelvin).Where(m => m.ParameterCount < data.Current.Length);
         var fits = candidates.Select(m => DropFitter.Fit(m, data)).ToList();
-        return DropFitter.ResistanceWithModelUncertainty(fits, DropFitter.Choose(fits, options.ModelSignificance).Chosen);
+        return DropFitter.ModelAveragedResistance(fits, DropFitter.Choose(fits, options.ModelSignificance).Chosen);
     }
 }

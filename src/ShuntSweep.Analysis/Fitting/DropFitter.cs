@@ -144,11 +144,12 @@ internal static class DropFitter
         return (chosen, runnerUp);
     }
 
-    /// <summary>The chosen model's small-signal resistance, with an uncertainty that also covers the choice of model: the Akaike-weighted
-    /// spread of every fitted model's value about it (Burnham and Anderson's unconditional variance, centred on the chosen model).</summary>
-    /// <remarks>When a simpler model wins by a hair (say ΔAICc &lt; 2 against a heating model), the data cannot tell the two apart, yet their
-    /// resistances can differ by more than either's own uncertainty; a model that loses by a wide margin gets a negligible weight.</remarks>
-    public static Results.Estimate ResistanceWithModelUncertainty(IReadOnlyList<CandidateFit> fits, CandidateFit chosen)
+    /// <summary>The small-signal resistance averaged over every fitted model with Akaike weights wₘ ∝ exp(−ΔAICcₘ/2), with Burnham and
+    /// Anderson's unconditional uncertainty u² = Σ wₘ·(uₘ² + (Rₘ − R̄)²), which covers the choice of model as well as each fit's own scatter.</summary>
+    /// <remarks>When a simpler model wins by a hair (a faintly heating shunt against the straight line), the data cannot tell the two
+    /// apart, yet their resistances can differ by more than either's own uncertainty; a model that loses by a wide margin gets a
+    /// negligible weight, so a clear choice keeps its own value and uncertainty.</remarks>
+    public static Results.Estimate ModelAveragedResistance(IReadOnlyList<CandidateFit> fits, CandidateFit chosen)
     {
         ArgumentNullException.ThrowIfNull(fits);
         ArgumentNullException.ThrowIfNull(chosen);
@@ -161,19 +162,13 @@ internal static class DropFitter
 
         var best = usable.Min(f => f.Aicc);
         var weights = usable.Select(f => Math.Exp(-(f.Aicc - best) / 2)).ToArray();
-        var total = weights.Sum();
-        var u = 0.0;
-        for (var m = 0; m < usable.Count; m++)
-        {
-            var r = usable[m].Model.SmallSignalResistance(usable[m].Parameters);
-            var um = usable[m].ResistanceUncertainty();
-            if (double.IsFinite(r) && double.IsFinite(um))
-            {
-                u += weights[m] / total * Math.Sqrt((um * um) + ((r - value) * (r - value)));
-            }
-        }
-
-        return new Results.Estimate(value, Math.Max(u, chosen.ResistanceUncertainty()));
+        var values = usable.Select(f => f.Model.SmallSignalResistance(f.Parameters)).ToArray();
+        var us = usable.Select(f => f.ResistanceUncertainty()).ToArray();
+        var ok = Enumerable.Range(0, usable.Count).Where(m => double.IsFinite(values[m]) && double.IsFinite(us[m])).ToList();
+        var total = ok.Sum(m => weights[m]);
+        var averaged = ok.Sum(m => weights[m] * values[m]) / total;
+        var u = Math.Sqrt(ok.Sum(m => weights[m] / total * ((us[m] * us[m]) + ((values[m] - averaged) * (values[m] - averaged)))));
+        return new Results.Estimate(averaged, u);
     }
 
     /// <summary>The two-parameter straight line every curved model is F-tested against (ohmic, or the amplified shunt in its place).</summary>

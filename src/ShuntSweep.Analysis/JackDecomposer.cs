@@ -43,6 +43,11 @@ internal static class JackDecomposer
                 separations.Add(heating);
             }
 
+            if (ThermalStep(members, options) is { } step)
+            {
+                separations.Add(step);
+            }
+
             list.Add(new JackDecomposition(jack.Key, members.Select(m => m.Result.Name).ToList(), separations));
         }
 
@@ -262,6 +267,98 @@ internal static class JackDecomposer
             {
                 ["heatingCoefficientPerA2"] = betaEst,
                 ["thermalResistanceKPerW"] = new Estimate(rth, urth),
+            });
+    }
+
+    /// <summary>Hypothesis: a thermal hold on a heated-element range shows the fuse as its fast term and the shunt as its slow term, so the
+    /// heating the sweep found is split between them in the ratio of the hold's amplitudes; checked by the fuse's predicted step against the hold's.</summary>
+    /// <remarks>A fuse-only fit of a drop in which the shunt heats too puts the shunt's heating into the fuse: with ε₀ the shunt's share of the
+    /// cubic term at small current, the fitted heated part is R_f·(1 + ε₀)² and its coefficient β_f/(1 + ε₀). The hold measures the share at
+    /// its own current, ε = A_slow/A_fast, and ε₀ = ε·(1 − β·I²)/(1 + ε·β·I²) to first order. The hold is taken to start from the steady
+    /// state of the jack's step before it (cold when it is the jack's first).</remarks>
+    private static Separation? ThermalStep(List<RangeAnalysis> ranges, AnalysisOptions options)
+    {
+        var candidates = ranges
+            .Where(r => r.Chosen.Model is HeatedElementModel)
+            .SelectMany(r => (r.Result.Thermal ?? []).Where(h => h.Terms.Count == 2).Select(h => (Range: r, Hold: h)))
+            .ToList();
+        if (candidates.Count != 1)
+        {
+            return null;
+        }
+
+        var (range, hold) = candidates[0];
+        var fast = hold.Terms.MinBy(t => t.TimeConstantSeconds.Value)!;
+        var slow = hold.Terms.MaxBy(t => t.TimeConstantSeconds.Value)!;
+        if (!(fast.AmplitudeVolts.Value < 0) || !(slow.AmplitudeVolts.Value < 0))
+        {
+            // Both elements must heat (the drop rises) for the split to mean anything.
+            return null;
+        }
+
+        var ih = hold.CurrentA;
+        var before = ranges.SelectMany(r => r.Result.Points).Where(p => p.Step < hold.Step).MaxBy(p => p.Step);
+        var ip = before?.CurrentA ?? 0;
+        var fit = range.Chosen;
+        double r0 = fit.Parameters[1], rh = fit.Parameters[2], beta = fit.Parameters[3];
+        var epsilon = slow.AmplitudeVolts.Value / fast.AmplitudeVolts.Value;
+        var uEpsilon = Math.Abs(epsilon) * Math.Sqrt(Square(slow.AmplitudeVolts.StandardUncertainty / slow.AmplitudeVolts.Value) + Square(fast.AmplitudeVolts.StandardUncertainty / fast.AmplitudeVolts.Value));
+
+        // x = (R₀, R_h, β, ε): the first three from the sweep's fit (with their covariance), ε from the hold (independent data).
+        static (double Fuse, double Beta, double Share) Split(double rh, double beta, double eps, double current)
+        {
+            // ε = ε₀·(1 − β_f·I²)/(1 − β_s·I²) with β_f = β·(1 + ε₀) and β_s·I² ≪ 1: a fixed point that contracts by ε·β·I² per turn.
+            var share = eps;
+            for (var k = 0; k < 50; k++)
+            {
+                share = eps / (1 - (beta * (1 + share) * current * current));
+            }
+
+            return (rh / Square(1 + share), beta * (1 + share), share);
+        }
+
+        double Fuse(double[] x) => Split(x[1], x[2], x[3], ih).Fuse;
+        double Shunt(double[] x) => x[0] - Split(x[1], x[2], x[3], ih).Fuse;
+        double BetaF(double[] x) => Split(x[1], x[2], x[3], ih).Beta;
+        double Predicted(double[] x)
+        {
+            var (rf, bf, _) = Split(x[1], x[2], x[3], ih);
+            return ih * rf * ((1 / (1 - (bf * ih * ih))) - (1 / (1 - (bf * ip * ip))));
+        }
+
+        var cov = new double[4, 4];
+        for (var i = 0; i < 3; i++)
+        {
+            for (var j = 0; j < 3; j++)
+            {
+                cov[i, j] = fit.Covariance[i + 1, j + 1];
+            }
+        }
+
+        cov[3, 3] = uEpsilon * uEpsilon;
+        double[] at = [r0, rh, beta, epsilon];
+        var (fuse, betaF, share) = Split(rh, beta, epsilon, ih);
+        var predicted = Predicted(at);
+        var measured = -fast.AmplitudeVolts.Value;
+        var interval = hold.Samples > 1 ? hold.DurationSeconds / (hold.Samples - 1) : 0;
+        var timing = measured * interval / fast.TimeConstantSeconds.Value / Math.Sqrt(3);
+        var chi2 = Square(measured - predicted) / (Square(fast.AmplitudeVolts.StandardUncertainty) + Square(timing) + Propagation.Variance(Predicted, at, cov));
+        var fuseEstimate = new Estimate(fuse, Math.Sqrt(Propagation.Variance(Fuse, at, cov)));
+        var betaEstimate = new Estimate(betaF, Math.Sqrt(Propagation.Variance(BetaF, at, cov)));
+        var rth = betaF / (options.FuseTemperatureCoefficient * fuse);
+        return Make(
+            $"the thermal hold at {hold.CurrentA:G4} A shows the fuse as its fast term and the shunt as its slow term; the sweep's heating is split between them in the ratio of the hold's amplitudes",
+            fuseEstimate,
+            new Dictionary<string, Estimate> { [range.Result.Name] = new Estimate(Shunt(at), Math.Sqrt(Propagation.Variance(Shunt, at, cov))) },
+            chi2,
+            1,
+            new Dictionary<string, Estimate>
+            {
+                ["heatingCoefficientPerA2"] = betaEstimate,
+                ["shuntShareOfHeating"] = new Estimate(share, uEpsilon * share / epsilon),
+                ["thermalResistanceKPerW"] = new Estimate(rth, Math.Abs(rth) * Math.Sqrt(Square(betaEstimate.StandardUncertainty / betaF) + Square(fuseEstimate.StandardUncertainty / fuse))),
+                ["fuseStepVolts"] = new Estimate(measured, Math.Sqrt(Square(fast.AmplitudeVolts.StandardUncertainty) + Square(timing))),
+                ["predictedFuseStepVolts"] = new Estimate(predicted, Math.Sqrt(Propagation.Variance(Predicted, at, cov))),
             });
     }
 

@@ -38,34 +38,7 @@ internal sealed record CandidateFit(
     public double ResistanceUncertainty() => Math.Sqrt(Propagate(p => Model.SmallSignalResistance(p)));
 
     /// <summary>The variance of g(p) by the law of propagation with a central-difference gradient.</summary>
-    public double Propagate(Func<double[], double> g)
-    {
-        ArgumentNullException.ThrowIfNull(g);
-        var m = Parameters.Length;
-        var grad = new double[m];
-        var q = (double[])Parameters.Clone();
-        for (var j = 0; j < m; j++)
-        {
-            var h = Math.Max(Math.Sqrt(Covariance[j, j]) * 1e-3, Math.Abs(Parameters[j]) * 1e-9) + 1e-300;
-            q[j] = Parameters[j] + h;
-            var up = g(q);
-            q[j] = Parameters[j] - h;
-            var down = g(q);
-            q[j] = Parameters[j];
-            grad[j] = (up - down) / (2 * h);
-        }
-
-        var v = 0.0;
-        for (var i = 0; i < m; i++)
-        {
-            for (var j = 0; j < m; j++)
-            {
-                v += grad[i] * Covariance[i, j] * grad[j];
-            }
-        }
-
-        return Math.Max(v, 0);
-    }
+    public double Propagate(Func<double[], double> g) => Propagation.Variance(g, Parameters, Covariance);
 }
 
 /// <summary>Fits drop models to points, by QR for linear models and Levenberg–Marquardt for the rest, and compares them.</summary>

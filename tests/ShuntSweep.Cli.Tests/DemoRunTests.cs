@@ -20,9 +20,9 @@ public sealed class DemoRunTests
         var dir = Some.TempDirectory();
         Assert.Equal(0, await Cli.RunAsync("run", Demo, "--bench", Bench, "--out", dir, "--seed", "7"));
 
-        // 4 ranges × 20 points × 5 samples, and a 60 s thermal hold at 10 Hz on the 10A range.
+        // 4 ranges × 20 points × 5 samples, and thermal holds at 10 Hz of 40 s on the 400mA range and 60 s on the 10A range.
         var samples = JournalCsv.Read(Path.Combine(dir, "journal.csv")).Samples;
-        Assert.Equal((4 * 20 * 5) + 600, samples.Count);
+        Assert.Equal((4 * 20 * 5) + 400 + 600, samples.Count);
 
         var result = ResultJson.Read(Path.Combine(dir, "result.json"));
         await using var truth = SimulatedBench.Create(BenchReader.Load(Bench), new VirtualBenchClock(new VirtualTimeProvider()), 7);

@@ -34,6 +34,29 @@ internal sealed record CandidateFit(
     /// <summary>BIC = n·ln(χ²/n) + K·ln n.</summary>
     public double Bic => Succeeded ? (Points * Math.Log(ChiSquare / Points)) + ((Parameters.Length + 1) * Math.Log(Points)) : double.PositiveInfinity;
 
+    /// <summary>True when two parameters are so correlated (|ρ| > 0.9999) that the data determine only a combination of them; such a fit's
+    /// own uncertainties are dominated by that ridge and say nothing reliable about any one quantity.</summary>
+    public bool IsDegenerate
+    {
+        get
+        {
+            var m = Parameters.Length;
+            for (var i = 0; i < m; i++)
+            {
+                for (var j = i + 1; j < m; j++)
+                {
+                    var d = Math.Sqrt(Covariance[i, i] * Covariance[j, j]);
+                    if (d > 0 && Math.Abs(Covariance[i, j] / d) > 0.9999)
+                    {
+                        return true;
+                    }
+                }
+            }
+
+            return false;
+        }
+    }
+
     /// <summary>The standard uncertainty of the small-signal resistance, propagated from the covariance by a numerical gradient.</summary>
     public double ResistanceUncertainty() => Math.Sqrt(Propagate(p => Model.SmallSignalResistance(p)));
 
@@ -121,14 +144,15 @@ internal static class DropFitter
     /// Anderson's unconditional uncertainty u² = Σ wₘ·(uₘ² + (Rₘ − R̄)²), which covers the choice of model as well as each fit's own scatter.</summary>
     /// <remarks>When a simpler model wins by a hair (a faintly heating shunt against the straight line), the data cannot tell the two
     /// apart, yet their resistances can differ by more than either's own uncertainty; a model that loses by a wide margin gets a
-    /// negligible weight, so a clear choice keeps its own value and uncertainty.</remarks>
+    /// negligible weight, so a clear choice keeps its own value and uncertainty. Degenerate fits (a ridge of equally good parameters) are
+    /// left out: their propagated uncertainty is an artefact of the ridge, not knowledge about the resistance.</remarks>
     public static Results.Estimate ModelAveragedResistance(IReadOnlyList<CandidateFit> fits, CandidateFit chosen)
     {
         ArgumentNullException.ThrowIfNull(fits);
         ArgumentNullException.ThrowIfNull(chosen);
         var value = chosen.Model.SmallSignalResistance(chosen.Parameters);
-        var usable = fits.Where(f => f.Succeeded && double.IsFinite(f.Aicc)).ToList();
-        if (!usable.Contains(chosen))
+        var usable = fits.Where(f => f == chosen || (f.Succeeded && double.IsFinite(f.Aicc) && !f.IsDegenerate)).ToList();
+        if (!usable.Contains(chosen) || !double.IsFinite(chosen.Aicc))
         {
             return new Results.Estimate(value, chosen.ResistanceUncertainty());
         }

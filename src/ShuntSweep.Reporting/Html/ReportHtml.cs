@@ -182,7 +182,7 @@ internal static class ReportHtml
                     ? $"{VerdictTag(c.SimpleAcceptance)}<br><span class=\"muted\">guard band: {E(Verdict(c.GuardBanded))}; TUR ≥ {E(N(c.MinimumTestUncertaintyRatio, "0.##"))}</span>"
                     : "<span class=\"muted\">not judged (no UUT readings)</span>",
             ]));
-        html.Append("<p class=\"note\">Resistance is the small-signal slope of drop against current at zero current; the burden at full scale is what the chosen model predicts there. ")
+        html.Append("<p class=\"note\">Resistance is the small-signal slope of drop against current at zero current, averaged over the candidate models by their Akaike weights (its uncertainty covers the choice of model); the burden at full scale is what the chosen model predicts there. ")
             .Append("Expanded uncertainties in this table are k = 2 times the standard uncertainties in result.json.</p>");
         var outliers = result.Ranges.SelectMany(r => r.Points.Where(p => p.Outlier).Select(p => (r, p))).ToList();
         if (outliers.Count > 0)

@@ -85,30 +85,7 @@ public sealed class ClampOnsetTests
     public void OnsetStart_ReturnsNull_ForADropThatCurvesUp()
     {
         // A heating fuse bends the drop upwards: the top points carry more drop than the low slope, not less, so no diode current is missing.
-        var model = new ClampDiodeOnsetModel(296.15);
-        var current = Some.Linear(0.003, 0.06, 20).ToArray();
-        var drop = current.Select(i => 12.3 * i * (1 + (0.8 * i * i))).ToArray();
-
-        Assert.Null(model.Start(new DropData(current, drop, current.Select(_ => 1e12).ToArray(), double.NaN)));
-    }
-
-    [Fact]
-    public void ClampDiodeOnsetModel_GradientMatchesFiniteDifferences()
-    {
-        var model = new ClampDiodeOnsetModel(296.15);
-        double[] p = [1e-7, 120.3, Math.Log(1e-9), 3.8];
-        Span<double> g = stackalloc double[4];
-        model.Evaluate(0.006, p, g);
-        for (var j = 0; j < 4; j++)
-        {
-            var h = (Math.Abs(p[j]) * 1e-6) + 1e-9;
-            var up = (double[])p.Clone();
-            var down = (double[])p.Clone();
-            up[j] += h;
-            down[j] -= h;
-            var fd = (model.Evaluate(0.006, up, []) - model.Evaluate(0.006, down, [])) / (2 * h);
-            Assert.Equal(fd, g[j], Math.Max(Math.Abs(fd) * 1e-5, 1e-12));
-        }
+        Check.GradientMatchesFiniteDifferences(new ClampDiodeOnsetModel(296.15), 0.006, [1e-7, 120.3, Math.Log(1e-9), 3.8], 1e-12);
     }
 
     private static bool Covers(double truth, Estimate e) => Math.Abs(e.Value - truth) <= 2 * e.StandardUncertainty;

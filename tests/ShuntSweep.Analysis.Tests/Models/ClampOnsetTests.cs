@@ -85,6 +85,16 @@ public sealed class ClampOnsetTests
     public void OnsetStart_ReturnsNull_ForADropThatCurvesUp()
     {
         // A heating fuse bends the drop upwards: the top points carry more drop than the low slope, not less, so no diode current is missing.
+        var model = new ClampDiodeOnsetModel(296.15);
+        var current = Some.Linear(0.003, 0.06, 20).ToArray();
+        var drop = current.Select(i => 12.3 * i * (1 + (0.8 * i * i))).ToArray();
+
+        Assert.Null(model.Start(new DropData(current, drop, current.Select(_ => 1e12).ToArray(), double.NaN)));
+    }
+
+    [Fact]
+    public void ClampDiodeOnsetModel_GradientMatchesFiniteDifferences()
+    {
         Check.GradientMatchesFiniteDifferences(new ClampDiodeOnsetModel(296.15), 0.006, [1e-7, 120.3, Math.Log(1e-9), 3.8], 1e-12);
     }
 

@@ -13,6 +13,23 @@ public sealed class RunJournalTests
         new("60mA", "mA", step, i, new Current(0.01), new Current(0.01), 0.01, new Voltage(0.02), new Voltage(5), new Voltage(4.9), TimeSpan.FromSeconds(step));
 
     [Fact]
+    public void Reopen_OfAJournalWithOtherColumns_IsRefused_AndLeavesItUntouched()
+    {
+        // A journal written before the shunt_tap_V column existed: appending today's rows would mix two layouts.
+        var dir = Some.TempDirectory();
+        var path = Path.Combine(dir, RunJournal.JournalFile);
+        const string older = "range,jack,step,sample,setpoint_A,reference_A,uut_reading_A,burden_V,supply_V,load_V,elapsed_s\n60mA,mA,0,0,0.01,0.01,,0.02,5,4.9,0\n";
+        File.WriteAllText(path, older);
+        File.WriteAllText(Path.Combine(dir, RunJournal.EventsFile), "");
+        var time = new VirtualTimeProvider();
+
+        var ex = Assert.Throws<InvalidDataException>(() => RunJournal.Reopen(dir, new StepDone(0, older.Length), time, time.GetUtcNow()));
+
+        Assert.Contains("start a new run", ex.Message, StringComparison.Ordinal);
+        Assert.Equal(older, File.ReadAllText(path));
+    }
+
+    [Fact]
     public void Reopen_CutsTheJournalBackToTheLastCompletedStep()
     {
         var dir = Some.TempDirectory();

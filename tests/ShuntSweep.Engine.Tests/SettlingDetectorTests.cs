@@ -94,6 +94,23 @@ public sealed class SettlingDetectorTests
     }
 
     [Fact]
+    public void MinimumReadings_IsTheFirstCountOnWhichASteadyLevelCanSettle()
+    {
+        // Four windows of max(N, 3) readings after the first third of the wait; a flat, noiseless level settles on the first of them.
+        foreach (var window in new[] { 1, 3, 4, 10 })
+        {
+            var detector = new SettlingDetector(window, Tolerance);
+            var k = 1;
+            while (!detector.Add(Final))
+            {
+                k++;
+            }
+
+            Assert.Equal(SettlingDetector.MinimumReadings(window), k);
+        }
+    }
+
+    [Fact]
     public void LinearRamp_NeverSettles()
     {
         var detector = new SettlingDetector(4, Tolerance);

@@ -52,7 +52,17 @@ public sealed class RunJournal : IDisposable
     public static RunJournal Reopen(string directory, StepDone lastDone, TimeProvider time, DateTimeOffset start)
     {
         ArgumentNullException.ThrowIfNull(lastDone);
-        var journal = new FileStream(Path.Combine(directory, JournalFile), FileMode.Open, FileAccess.Write, FileShare.Read);
+        var journalPath = Path.Combine(directory, JournalFile);
+        using (var reader = new StreamReader(journalPath))
+        {
+            var header = reader.ReadLine() + "\n";
+            if (header != JournalCsv.Header)
+            {
+                throw new InvalidDataException($"{journalPath}: its columns ({header.TrimEnd()}) are not the ones this version writes ({JournalCsv.Header.TrimEnd()}); appending would mix two layouts. Fit it as it is, and start a new run instead of resuming.");
+            }
+        }
+
+        var journal = new FileStream(journalPath, FileMode.Open, FileAccess.Write, FileShare.Read);
         journal.SetLength(lastDone.JournalBytes);
         journal.Seek(0, SeekOrigin.End);
         var eventsPath = Path.Combine(directory, EventsFile);

@@ -1,6 +1,7 @@
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Uut;
+using ShuntSweep.Engine.Running;
 using ShuntSweep.Engine.Sequences;
 
 namespace ShuntSweep.Engine.Planning;
@@ -185,7 +186,8 @@ public static class Planner
     }
 
     /// <summary>The expected duration of <paramref name="steps"/> when one sample takes <paramref name="sampleTime"/> (by default the integration time at the step's NPLC).</summary>
-    /// <remarks>Once the bench is connected, the instruments' own measurement times (a handheld UUT may read only three times a second) give a better estimate.</remarks>
+    /// <remarks>Once the bench is connected, the instruments' own measurement times (a handheld UUT may read only three times a second) give a better estimate.
+    /// An adaptive point counts the fewest readings its settling rule can decide on; a thermal drift makes it wait longer.</remarks>
     public static TimeSpan Estimate(IReadOnlyList<PlanStep> steps, Func<PointSettings, TimeSpan>? sampleTime = null)
     {
         ArgumentNullException.ThrowIfNull(steps);
@@ -195,7 +197,7 @@ public static class Planner
         {
             total += step switch
             {
-                MeasureStep m => m.Settings.Settling.Dwell + (sampleTime(m.Settings) * (m.Settings.Samples + m.Settings.Settling.AgreeCount)),
+                MeasureStep m => m.Settings.Settling.Dwell + (sampleTime(m.Settings) * (m.Settings.Samples + (m.Settings.Settling.IsAdaptive ? SettlingDetector.MinimumReadings(m.Settings.Settling.AgreeCount) : 0))),
                 HoldStep h => h.Duration + h.Settings.Settling.Dwell,
                 RampStep r => r.Duration,
                 _ => TimeSpan.Zero,

@@ -151,7 +151,7 @@ public sealed class Runner
                 return [];
             case MeasureStep m:
                 await EnterRangeAsync(m.Range, m.Settings.Nplc, ct);
-                return await MeasureAsync(m, ct);
+                return await MeasureAsync(m, record, ct);
             case HoldStep h:
                 await EnterRangeAsync(h.Range, h.Settings.Nplc, ct);
                 return await HoldAsync(h, ct);
@@ -203,13 +203,13 @@ public sealed class Runner
         }
     }
 
-    private async Task<IReadOnlyList<Sample>> MeasureAsync(MeasureStep m, CancellationToken ct)
+    private async Task<IReadOnlyList<Sample>> MeasureAsync(MeasureStep m, bool record, CancellationToken ct)
     {
         await _bench.Load.SetConstantCurrentAsync(m.Setpoint, ct);
         await Clock.WaitAsync(m.Settings.Settling.Dwell, ct);
         if (m.Settings.Settling.IsAdaptive)
         {
-            await SettleAsync(m, ct);
+            await SettleAsync(m, record, ct);
         }
 
         var readings = new List<Reading>(m.Settings.Samples);
@@ -221,7 +221,8 @@ public sealed class Runner
         return await FinishPointAsync(m, m.Setpoint, readings, ct);
     }
 
-    private async Task SettleAsync(MeasureStep m, CancellationToken ct)
+    /// <summary>Reads the drop (and the shunt tap) until each has settled or the rule's longest wait is over; logs the wait unless replaying.</summary>
+    private async Task SettleAsync(MeasureStep m, bool record, CancellationToken ct)
     {
         var rule = m.Settings.Settling;
         var deadline = Clock.Now() + rule.MaxWait;
@@ -237,16 +238,40 @@ public sealed class Runner
             var tapSettled = tapDetector?.Add(r.Tap) ?? true;
             if (dropSettled && tapSettled)
             {
-                _journal.Event("settled", new Dictionary<string, object?> { ["step"] = m.Index, ["readings"] = count, ["waitedS"] = (Clock.Now() - started).TotalSeconds, ["remainingV"] = detector.RemainingChange });
+                if (record)
+                {
+                    _journal.Event("settled", SettleDetails(m, count, started, detector, tapDetector));
+                }
+
                 return;
             }
 
             if (Clock.Now() >= deadline)
             {
-                _journal.Event("not-settled", new Dictionary<string, object?> { ["step"] = m.Index, ["maxWaitS"] = rule.MaxWait.TotalSeconds, ["remainingV"] = double.IsFinite(detector.RemainingChange) ? detector.RemainingChange : null });
+                if (record)
+                {
+                    _journal.Event("not-settled", SettleDetails(m, count, started, detector, tapDetector));
+                }
+
                 return;
             }
         }
+    }
+
+    private Dictionary<string, object?> SettleDetails(MeasureStep m, int readings, DateTimeOffset started, SettlingDetector drop, SettlingDetector? tap)
+    {
+        static double? Finite(double v) => double.IsFinite(v) ? v : null;
+        return new Dictionary<string, object?>
+        {
+            ["step"] = m.Index,
+            ["readings"] = readings,
+            ["waitedS"] = (Clock.Now() - started).TotalSeconds,
+            ["maxWaitS"] = m.Settings.Settling.MaxWait.TotalSeconds,
+            ["remainingV"] = Finite(drop.RemainingChange),
+            ["limitV"] = Finite(drop.Limit),
+            ["tapRemainingV"] = tap is null ? null : Finite(tap.RemainingChange),
+            ["tapLimitV"] = tap is null ? null : Finite(tap.Limit),
+        };
     }
 
     private async Task<IReadOnlyList<Sample>> HoldAsync(HoldStep h, CancellationToken ct)

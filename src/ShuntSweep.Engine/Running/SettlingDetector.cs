@@ -19,6 +19,10 @@ internal sealed class SettlingDetector
     private const int Parts = 4;
     private readonly List<double> _readings = [];
 
+    // Running sums, so that each reading costs the same however long the wait: Σ readings, and Σ squared second differences.
+    private readonly List<double> _sums = [0];
+    private readonly List<double> _curvatureSums = [0, 0];
+
     /// <summary>Creates a detector whose last <paramref name="window"/> readings must agree within the relative <paramref name="tolerance"/>.</summary>
     public SettlingDetector(int window, double tolerance)
     {
@@ -28,6 +32,22 @@ internal sealed class SettlingDetector
         _tolerance = tolerance;
     }
 
+    /// <summary>The fewest readings on which a detector over <paramref name="window"/> agreeing readings can decide: four windows of
+    /// max(window, 3) readings after the first third of the wait.</summary>
+    public static int MinimumReadings(int window)
+    {
+        var n = 1;
+        while ((n - (n / 3)) / Parts < Math.Max(window, 3))
+        {
+            n++;
+        }
+
+        return n;
+    }
+
+    /// <summary>The limit the last decision was held to, in the readings' unit: the tolerance, or the meter's noise where that is larger.</summary>
+    public double Limit { get; private set; } = double.NaN;
+
     /// <summary>The change still to come as last extrapolated, in the readings' unit (infinity while it cannot be bounded).</summary>
     public double RemainingChange { get; private set; } = double.PositiveInfinity;
 
@@ -36,6 +56,13 @@ internal sealed class SettlingDetector
     {
         _readings.Add(reading);
         var n = _readings.Count;
+        _sums.Add(_sums[^1] + reading);
+        if (n >= 3)
+        {
+            var second = _readings[n - 1] - (2 * _readings[n - 2]) + _readings[n - 3];
+            _curvatureSums.Add(_curvatureSums[^1] + (second * second));
+        }
+
         // The first third of the wait is left out: it holds the fastest part of the step, which says nothing of what is still to come.
         var quarter = (n - (n / 3)) / Parts;
         if (quarter < Math.Max(_window, 3))
@@ -46,12 +73,13 @@ internal sealed class SettlingDetector
         // Equal quarters of the rest, ending at the last reading.
         var from = n - (Parts * quarter);
         var noiseOfMean = NoiseOfWindowMean(from, quarter);
-        var noiseOfDifference = Math.Sqrt(2) * noiseOfMean;
+        // Running sums round at about 1e-16 of the level; differences below a part in 10¹² of it are that rounding, not drift.
+        var noiseOfDifference = Math.Max(Math.Sqrt(2) * noiseOfMean, 1e-12 * Math.Abs(Mean(from, Parts * quarter)));
 
         // A tolerance finer than the meter's own noise cannot be shown to hold: the noise sets the limit then (the range of a few
         // normal readings stays within 4.5 σ all but rarely).
         var last = _readings.GetRange(n - _window, _window);
-        var limit = _tolerance * Math.Abs(last.Average());
+        var limit = _tolerance * Math.Abs(Mean(n - _window, _window));
         if (last.Max() - last.Min() > Math.Max(limit, 4.5 * noiseOfMean * Math.Sqrt(quarter)))
         {
             return false;
@@ -62,7 +90,8 @@ internal sealed class SettlingDetector
         RemainingChange = StillChangingItsRate(d, noiseOfDifference)
             ? double.PositiveInfinity
             : Enumerable.Range(0, Parts - 2).Select(k => Remaining(d[k], d[k + 1], noiseOfDifference)).Max();
-        return RemainingChange <= Math.Max(limit, 2 * noiseOfDifference);
+        Limit = Math.Max(limit, 2 * noiseOfDifference);
+        return RemainingChange <= Limit;
     }
 
     /// <summary>True while the decay ratio is still clearly rising from one triple of quarters to the next: a fast and a slow element
@@ -90,12 +119,18 @@ internal sealed class SettlingDetector
             return Math.Abs(d2);
         }
 
+        // A later difference of the other sign that is more than noise is a reversal: no limit to extrapolate to.
+        if (Math.Sign(d1) != Math.Sign(d2) && Math.Abs(d2) > 2 * noise)
+        {
+            return double.PositiveInfinity;
+        }
+
         // The ratio at its upper bound: each difference moved by its noise towards q = 1.
         var a1 = Math.Abs(d1) - noise;
         var a2 = Math.Abs(d2) + noise;
-        if (Math.Sign(d1) != Math.Sign(d2) || a1 <= 0 || a2 >= a1)
+        if (a1 <= 0 || a2 >= a1)
         {
-            // Not (yet) a decaying drift: a ramp, an accelerating change or a reversal has no limit to extrapolate to.
+            // Not (yet) a decaying drift: a ramp or an accelerating change has no limit to extrapolate to.
             return double.PositiveInfinity;
         }
 
@@ -103,29 +138,15 @@ internal sealed class SettlingDetector
         return a2 * q / (1 - q);
     }
 
-    private double Mean(int from, int count)
-    {
-        var sum = 0.0;
-        for (var i = from; i < from + count; i++)
-        {
-            sum += _readings[i];
-        }
-
-        return sum / count;
-    }
+    private double Mean(int from, int count) => (_sums[from + count] - _sums[from]) / count;
 
     /// <summary>The standard deviation of one window's mean, from the second differences of the readings in the last window, where the
     /// drift is least: a second difference cancels a level and a slope, and its variance is 6σ² for independent readings.</summary>
     private double NoiseOfWindowMean(int from, int count)
     {
+        // _curvatureSums[i] sums the second differences centred on readings 1 … i − 1; the last window's are centred on start + 1 … start + count − 2.
         var start = from + ((Parts - 1) * count);
-        double sum = 0;
-        for (var i = start + 1; i < start + count - 1; i++)
-        {
-            var d = _readings[i + 1] - (2 * _readings[i]) + _readings[i - 1];
-            sum += d * d;
-        }
-
+        var sum = _curvatureSums[start + count - 1] - _curvatureSums[start + 1];
         var variance = sum / (count - 2) / 6;
         return Math.Sqrt(variance / count);
     }

@@ -274,8 +274,10 @@ internal static class JackDecomposer
     /// heating the sweep found is split between them in the ratio of the hold's amplitudes; checked by the fuse's predicted step against the hold's.</summary>
     /// <remarks>A fuse-only fit of a drop in which the shunt heats too puts the shunt's heating into the fuse: with ε₀ the shunt's share of the
     /// cubic term at small current, the fitted heated part is R_f·(1 + ε₀)² and its coefficient β_f/(1 + ε₀). The hold measures the share at
-    /// its own current, ε = A_slow/A_fast, and ε₀ = ε·(1 − β·I²)/(1 + ε·β·I²) to first order. The hold is taken to start from the steady
-    /// state of the jack's step before it (cold when it is the jack's first).</remarks>
+    /// its own current, ε = A_slow/A_fast = ε₀·(I_h² − I_p²)/(I_h²/(1 − β_f·I_h²) − I_p²/(1 − β_f·I_p²)) for a hold at I_h that starts from
+    /// the steady state at I_p of the jack's step before it (I_p = 0, cold, when it is the jack's first), the shunt's own β_s·I² ≪ 1.
+    /// Where in its first sample interval T the step fell is not recorded, so the fast amplitude carries a rectangular ±T/τ_fast relative.
+    /// The check is only a check when it could fail: when the split made no difference to it either, the separation is unchecked.</remarks>
     private static Separation? ThermalStep(List<RangeAnalysis> ranges, AnalysisOptions options)
     {
         var candidates = ranges
@@ -290,7 +292,7 @@ internal static class JackDecomposer
         var (range, hold) = candidates[0];
         var fast = hold.Terms.MinBy(t => t.TimeConstantSeconds.Value)!;
         var slow = hold.Terms.MaxBy(t => t.TimeConstantSeconds.Value)!;
-        if (!(fast.AmplitudeVolts.Value < 0) || !(slow.AmplitudeVolts.Value < 0))
+        if (!(fast.AmplitudeVolts.Value < 0) || !(slow.AmplitudeVolts.Value < 0) || !(hold.CurrentA > 0))
         {
             // Both elements must heat (the drop rises) for the split to mean anything.
             return null;
@@ -301,28 +303,33 @@ internal static class JackDecomposer
         var ip = before?.CurrentA ?? 0;
         var fit = range.Chosen;
         double r0 = fit.Parameters[1], rh = fit.Parameters[2], beta = fit.Parameters[3];
+        var measured = -fast.AmplitudeVolts.Value;
+        var interval = hold.Samples > 1 ? hold.DurationSeconds / (hold.Samples - 1) : 0;
+        var timing = measured * interval / fast.TimeConstantSeconds.Value / Math.Sqrt(3);
+        var uMeasured = Math.Sqrt(Square(fast.AmplitudeVolts.StandardUncertainty) + Square(timing));
         var epsilon = slow.AmplitudeVolts.Value / fast.AmplitudeVolts.Value;
-        var uEpsilon = Math.Abs(epsilon) * Math.Sqrt(Square(slow.AmplitudeVolts.StandardUncertainty / slow.AmplitudeVolts.Value) + Square(fast.AmplitudeVolts.StandardUncertainty / fast.AmplitudeVolts.Value));
+        var uEpsilon = Math.Abs(epsilon) * Math.Sqrt(Square(slow.AmplitudeVolts.StandardUncertainty / slow.AmplitudeVolts.Value) + Square(uMeasured / measured));
 
         // x = (R₀, R_h, β, ε): the first three from the sweep's fit (with their covariance), ε from the hold (independent data).
-        static (double Fuse, double Beta, double Share) Split(double rh, double beta, double eps, double current)
+        (double Fuse, double Beta, double Share) Split(double rh, double b, double eps)
         {
-            // ε = ε₀·(1 − β_f·I²)/(1 − β_s·I²) with β_f = β·(1 + ε₀) and β_s·I² ≪ 1: a fixed point that contracts by ε·β·I² per turn.
+            // ε₀ = ε·D(β_f)/(I_h² − I_p²) with β_f = β·(1 + ε₀): a fixed point that contracts by about ε·β·I_h² per turn.
             var share = eps;
             for (var k = 0; k < 50; k++)
             {
-                share = eps / (1 - (beta * (1 + share) * current * current));
+                var bf = b * (1 + share);
+                share = eps * ((ih * ih / (1 - (bf * ih * ih))) - (ip * ip / (1 - (bf * ip * ip)))) / ((ih * ih) - (ip * ip));
             }
 
-            return (rh / Square(1 + share), beta * (1 + share), share);
+            return (rh / Square(1 + share), b * (1 + share), share);
         }
 
-        double Fuse(double[] x) => Split(x[1], x[2], x[3], ih).Fuse;
-        double Shunt(double[] x) => x[0] - Split(x[1], x[2], x[3], ih).Fuse;
-        double BetaF(double[] x) => Split(x[1], x[2], x[3], ih).Beta;
+        double Fuse(double[] x) => Split(x[1], x[2], x[3]).Fuse;
+        double Shunt(double[] x) => x[0] - Split(x[1], x[2], x[3]).Fuse;
+        double BetaF(double[] x) => Split(x[1], x[2], x[3]).Beta;
         double Predicted(double[] x)
         {
-            var (rf, bf, _) = Split(x[1], x[2], x[3], ih);
+            var (rf, bf, _) = Split(x[1], x[2], x[3]);
             return ih * rf * ((1 / (1 - (bf * ih * ih))) - (1 / (1 - (bf * ip * ip))));
         }
 
@@ -337,28 +344,34 @@ internal static class JackDecomposer
 
         cov[3, 3] = uEpsilon * uEpsilon;
         double[] at = [r0, rh, beta, epsilon];
-        var (fuse, betaF, share) = Split(rh, beta, epsilon, ih);
+        var (fuse, betaF, share) = Split(rh, beta, epsilon);
         var predicted = Predicted(at);
-        var measured = -fast.AmplitudeVolts.Value;
-        var interval = hold.Samples > 1 ? hold.DurationSeconds / (hold.Samples - 1) : 0;
-        var timing = measured * interval / fast.TimeConstantSeconds.Value / Math.Sqrt(3);
-        var chi2 = Square(measured - predicted) / (Square(fast.AmplitudeVolts.StandardUncertainty) + Square(timing) + Propagation.Variance(Predicted, at, cov));
+        var chi2 = Square(measured - predicted) / (Square(uMeasured) + Propagation.Variance(Predicted, at, cov));
+
+        // The same check with no split at all (ε = 0): if that passes too, the check cannot tell the split from none.
+        double[] unsplit = [r0, rh, beta, 0];
+        var chi2Unsplit = Square(measured - Predicted(unsplit)) / (Square(uMeasured) + Propagation.Variance(Predicted, unsplit, cov));
+        var powerful = chi2Unsplit > ChiSquared.InvCDF(1, 0.95);
         var fuseEstimate = new Estimate(fuse, Math.Sqrt(Propagation.Variance(Fuse, at, cov)));
         var betaEstimate = new Estimate(betaF, Math.Sqrt(Propagation.Variance(BetaF, at, cov)));
         var rth = betaF / (options.FuseTemperatureCoefficient * fuse);
-        return Make(
+        var p = 1 - ChiSquared.CDF(1, chi2);
+        return new Separation(
             $"the thermal hold at {hold.CurrentA:G4} A shows the fuse as its fast term and the shunt as its slow term; the sweep's heating is split between them in the ratio of the hold's amplitudes",
             fuseEstimate,
             new Dictionary<string, Estimate> { [range.Result.Name] = new Estimate(Shunt(at), Math.Sqrt(Propagation.Variance(Shunt, at, cov))) },
             chi2,
             1,
+            p,
+            powerful ? p >= 0.05 : null,
             new Dictionary<string, Estimate>
             {
                 ["heatingCoefficientPerA2"] = betaEstimate,
                 ["shuntShareOfHeating"] = new Estimate(share, uEpsilon * share / epsilon),
                 ["thermalResistanceKPerW"] = new Estimate(rth, Math.Abs(rth) * Math.Sqrt(Square(betaEstimate.StandardUncertainty / betaF) + Square(fuseEstimate.StandardUncertainty / fuse))),
-                ["fuseStepVolts"] = new Estimate(measured, Math.Sqrt(Square(fast.AmplitudeVolts.StandardUncertainty) + Square(timing))),
+                ["fuseStepVolts"] = new Estimate(measured, uMeasured),
                 ["predictedFuseStepVolts"] = new Estimate(predicted, Math.Sqrt(Propagation.Variance(Predicted, at, cov))),
+                ["chiSquareWithoutSplit"] = new Estimate(chi2Unsplit, 0),
             });
     }
 

@@ -27,7 +27,7 @@ public sealed class SimulatedBench : IAsyncDisposable
     /// <summary>The bench the simulation was built from.</summary>
     public BenchDescription Description { get; }
 
-    /// <summary>The simulated instruments' names, in port order (a subset of supply, load, dmm, uut, ref).</summary>
+    /// <summary>The simulated instruments' names, in port order (a subset of supply, load, dmm, uut, ref, tap).</summary>
     public IReadOnlyList<string> Instruments => SimulationReader.Served.Where(_instruments.ContainsKey).ToList();
 
     /// <summary>Builds the simulation of <paramref name="bench"/> on <paramref name="clock"/>, drawing per-unit errors and noise from <paramref name="seed"/>.</summary>

@@ -71,8 +71,8 @@ internal static class SimulationReader
             l?.QuantityOr("currentNoise", SiUnit.Ampere, 1e-5) ?? 1e-5);
         l?.Finish();
 
-        var dmm = ReadVoltmeter(map, "dmm", served, "ShuntSweep,SIM-DMM,DMM-0001,1.0", line);
-        var tap = ReadVoltmeter(map, "tap", served, "ShuntSweep,SIM-DMM,DMM-0002,1.0", line);
+        var dmm = ReadVoltmeter(map, "dmm", served, "ShuntSweep,SIM-DMM,DMM-0001,1.0", line, loadsTheCircuit: true);
+        var tap = ReadVoltmeter(map, "tap", served, "ShuntSweep,SIM-DMM,DMM-0002,1.0", line, loadsTheCircuit: false);
 
         var r = map?.Mapping("ref");
         ReferencePhysics? reference = null;
@@ -95,7 +95,8 @@ internal static class SimulationReader
     }
 
     /// <summary>The physics of the voltmeter served as <c>SIM::name</c> (the drop meter, or the tap across the shunt); null when the bench does not use it.</summary>
-    private static VoltmeterPhysics? ReadVoltmeter(MappingReader? section, string name, List<string> served, string identity, double line)
+    /// <remarks>Only a meter that loads the circuit (the drop meter) has input-resistance keys; the tap's are rejected as unknown.</remarks>
+    private static VoltmeterPhysics? ReadVoltmeter(MappingReader? section, string name, List<string> served, string identity, double line, bool loadsTheCircuit)
     {
         var d = section?.Mapping(name);
         VoltmeterPhysics? physics = null;
@@ -103,8 +104,8 @@ internal static class SimulationReader
         {
             physics = new VoltmeterPhysics(
                 Identity(d, identity),
-                d?.QuantityOr("inputResistance", SiUnit.Ohm, 10e6) ?? 10e6,
-                d?.QuantityOrNull("highImpedance", SiUnit.Ohm),
+                loadsTheCircuit ? d?.QuantityOr("inputResistance", SiUnit.Ohm, 10e6) ?? 10e6 : double.PositiveInfinity,
+                loadsTheCircuit ? d?.QuantityOrNull("highImpedance", SiUnit.Ohm) : null,
                 d?.QuantityOr("noiseAt1Plc", SiUnit.Volt, 1e-6) ?? 1e-6,
                 d?.QuantityOr("noiseFloor", SiUnit.Volt, 5e-8) ?? 5e-8,
                 d?.QuantityOr("offsetAutoZeroOn", SiUnit.Volt, 2e-7) ?? 2e-7,

@@ -7,7 +7,8 @@ namespace ShuntSweep.Analysis.Tests;
 public sealed class TapSeparationTests
 {
     // Invented test unit: one jack with a 0.30 Ω fuse (+5 mΩ contacts) that heats with β = 0.8 A⁻², and two ranges whose manganin-like
-    // shunts heat too (the case where no steady-state drop model can tell the two heating elements apart).
+    // shunts heat too (the case where no steady-state drop model can tell the two heating elements apart). Each element follows the
+    // self-heating law R = R₀/(1 − β·I²), and the drop is the tap plus the series part (Kirchhoff's voltage law): common practice, no source.
     private const double Contacts = 0.005, Fuse = 0.30, FuseBeta = 0.8;
 
     [Fact]

@@ -21,9 +21,11 @@ public sealed class DecompositionAgainstSimulationTests
         foreach (var jack in result.Decomposition!)
         {
             var tap = jack.Separations.Single(s => s.Hypothesis.StartsWith("a tap voltmeter", StringComparison.Ordinal));
-            Assert.NotEqual(false, tap.Consistent);
+            // Two ranges on IN give a χ² check of their common series part; the single range on LO leaves nothing to check.
+            Assert.Equal(jack.Ranges.Count > 1 ? true : null, tap.Consistent);
 
             // Ground truth from the simulation section: the jack's fuse (as built for this seed) plus its contacts, and each range's front end.
+            // Kirchhoff's voltage law along the jack (common practice, no source): drop = tap + I·(fuse + contacts).
             var series = truth.FuseColdResistance(jack.Jack).Ohms + truth.ContactResistance(jack.Jack).Ohms;
             Expect(misses, $"{jack.Jack} series part", series, tap.CommonSeriesOhms);
             foreach (var (range, shunt) in tap.ShuntOhms)
@@ -49,9 +51,18 @@ public sealed class DecompositionAgainstSimulationTests
         var tenA = result.Decomposition!.Single(d => d.Jack == "10A");
         Assert.Equal(false, tenA.Separations.Single(s => s.Hypothesis.StartsWith("only the jack's common element", StringComparison.Ordinal)).Consistent);
 
-        // The demo's thermal holds on the 400mA and 10A ranges split the heating between the fast fuse and the slow shunt, and the
-        // split holds on both jacks (the values are checked against the configuration below, with every consistent separation).
-        Assert.All(result.Decomposition!, d => Assert.Equal(true, d.Separations.Single(s => s.Hypothesis.StartsWith("the thermal hold", StringComparison.Ordinal)).Consistent));
+        // The demo's thermal holds on the 400mA and 10A ranges split the heating between the fast fuse and the slow shunt. The split's own
+        // check cannot tell it from no split (the first sample's timing is not known well enough), so it is unchecked, not consistent;
+        // its fuse is checked against the configuration here instead.
+        var thermalMisses = new List<string>();
+        foreach (var d in result.Decomposition!)
+        {
+            var split = d.Separations.Single(s => s.Hypothesis.StartsWith("the thermal hold", StringComparison.Ordinal));
+            Assert.NotEqual(false, split.Consistent);
+            Expect(thermalMisses, $"{d.Jack} fuse from the thermal hold", truth.FuseColdResistance(d.Jack).Ohms, split.CommonSeriesOhms);
+        }
+
+        Assert.True(thermalMisses.Count == 0, string.Join("; ", thermalMisses));
 
                 // One range on a jack leaves the nominal hypothesis exactly determined: no check, so it must not claim consistency.
         Assert.Null(tenA.Separations.Single(s => s.Hypothesis.StartsWith("each shunt is at its nominal", StringComparison.Ordinal)).Consistent);

@@ -48,8 +48,8 @@ public sealed class SimulatedBenchTests
         var shunt = (await tap.NumbersAsync("READ?"))[0];
 
         // Kirchhoff's voltage law along the jack: drop = I·(contacts + fuse) + shunt voltage; 10 mA heats the fuse by well under 0.1 %.
-        var fuseAndContacts = 0.010 * (bench.FuseColdResistance("mA").Ohms + 0.005);
+        var fuseAndContacts = 0.010 * (bench.FuseColdResistance("mA").Ohms + bench.ContactResistance("mA").Ohms);
         Assert.Equal(fuseAndContacts, drop - shunt, fuseAndContacts * 2e-3);
-        Assert.Equal(0.010 * (bench.ExpectedSeriesResistance("60mA").Ohms - bench.FuseColdResistance("mA").Ohms - 0.005), shunt, 1e-5);
+        Assert.Equal(0.010 * (bench.ExpectedSeriesResistance("60mA").Ohms - bench.FuseColdResistance("mA").Ohms - bench.ContactResistance("mA").Ohms), shunt, 1e-5);
     }
 }

@@ -145,14 +145,16 @@ internal static class DropFitter
     /// <remarks>When a simpler model wins by a hair (a faintly heating shunt against the straight line), the data cannot tell the two
     /// apart, yet their resistances can differ by more than either's own uncertainty; a model that loses by a wide margin gets a
     /// negligible weight, so a clear choice keeps its own value and uncertainty. Degenerate fits (a ridge of equally good parameters) are
-    /// left out: their propagated uncertainty is an artefact of the ridge, not knowledge about the resistance.</remarks>
+    /// left out: their propagated uncertainty is an artefact of the ridge, not knowledge about the resistance. Curved models that the
+    /// F-test kept from being chosen are averaged in: the gate decides which curve to name, but leaving them out of the resistance is
+    /// what biases the straight line's slope when a faint heating is real (CoverageTests measures both).</remarks>
     public static Results.Estimate ModelAveragedResistance(IReadOnlyList<CandidateFit> fits, CandidateFit chosen)
     {
         ArgumentNullException.ThrowIfNull(fits);
         ArgumentNullException.ThrowIfNull(chosen);
         var value = chosen.Model.SmallSignalResistance(chosen.Parameters);
         var usable = fits.Where(f => f == chosen || (f.Succeeded && double.IsFinite(f.Aicc) && !f.IsDegenerate)).ToList();
-        if (!usable.Contains(chosen) || !double.IsFinite(chosen.Aicc))
+        if (!double.IsFinite(chosen.Aicc))
         {
             return new Results.Estimate(value, chosen.ResistanceUncertainty());
         }
@@ -163,6 +165,11 @@ internal static class DropFitter
         var us = usable.Select(f => f.ResistanceUncertainty()).ToArray();
         var ok = Enumerable.Range(0, usable.Count).Where(m => double.IsFinite(values[m]) && double.IsFinite(us[m])).ToList();
         var total = ok.Sum(m => weights[m]);
+        if (!(total > 0))
+        {
+            return new Results.Estimate(value, chosen.ResistanceUncertainty());
+        }
+
         var averaged = ok.Sum(m => weights[m] * values[m]) / total;
         var u = Math.Sqrt(ok.Sum(m => weights[m] / total * ((us[m] * us[m]) + ((values[m] - averaged) * (values[m] - averaged)))));
         return new Results.Estimate(averaged, u);

@@ -34,7 +34,8 @@ public enum Readings
 
 /// <summary>How a point decides it has settled before sampling.</summary>
 /// <param name="Dwell">The fixed wait after the current is set.</param>
-/// <param name="AgreeCount">For adaptive settling, how many consecutive drop readings must agree; 0 means fixed dwell only.</param>
+/// <param name="AgreeCount">For adaptive settling, how many consecutive drop readings must agree (and the window of the drift extrapolation,
+/// so at least about 6·max(N, 3) readings are taken); 0 means fixed dwell only.</param>
 /// <param name="Tolerance">For adaptive settling, the relative spread within which readings agree.</param>
 /// <param name="MaxWait">For adaptive settling, the longest wait before sampling anyway (and logging that it did not settle).</param>
 public sealed record Settling(TimeSpan Dwell, int AgreeCount, double Tolerance, TimeSpan MaxWait)

@@ -191,7 +191,10 @@ internal static class RunPlots
         var position = 0.0;
         foreach (var jack in jacks)
         {
-            var separation = jack.Separations.FirstOrDefault(s => s.Consistent == true) ?? (jack.Separations.Count > 0 ? jack.Separations[0] : null);
+            // A shunt tap measures the split, so it is drawn unless its own check rejects it; otherwise the first consistent hypothesis.
+            var separation = jack.Separations.FirstOrDefault(s => s.Hypothesis.StartsWith("a tap voltmeter", StringComparison.Ordinal) && s.Consistent != false)
+                ?? jack.Separations.FirstOrDefault(s => s.Consistent == true)
+                ?? (jack.Separations.Count > 0 ? jack.Separations[0] : null);
             if (separation is null)
             {
                 continue;

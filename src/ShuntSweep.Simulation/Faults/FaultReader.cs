@@ -11,7 +11,7 @@ internal static class FaultReader
     public static readonly string[] Kinds = ["latency", "lateReply", "truncatedReply", "dropConnection", "garbledByte", "pushError", "reset", "fuseOpen", "loadDropout"];
 
     /// <summary>The instrument names faults may watch.</summary>
-    public static readonly string[] InstrumentNames = ["supply", "load", "dmm", "uut", "ref"];
+    public static readonly string[] InstrumentNames = ["supply", "load", "dmm", "uut", "ref", "tap"];
 
     /// <summary>Reads every fault of <paramref name="items"/>.</summary>
     public static IReadOnlyList<IFault> Read(IReadOnlyList<NodeReader> items, IReadOnlyCollection<string> served, UutModel uut) =>

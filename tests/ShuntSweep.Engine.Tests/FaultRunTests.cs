@@ -53,6 +53,24 @@ public sealed class FaultRunTests
         AssertSafeEnd(run);
     }
 
+    [Fact]
+    public async Task ShuntTap_IsReadWithEverySample_IntoTheJournal()
+    {
+        var run = await SimulatedRun.RunAsync(SimulatedRun.BenchWithTap());
+        Assert.Equal(RunEnd.Completed, run.Outcome.End);
+        Assert.All(run.Journal.Samples, s => Assert.True(s.ShuntTap is { } tap && tap.Volts > 0 && tap.Volts < s.Burden.Volts, $"step {s.Step}: tap {s.ShuntTap}, drop {s.Burden}"));
+        AssertSafeEnd(run);
+    }
+
+    [Fact]
+    public async Task ShuntTapError_IsAnInstrumentFailure_WithOutputsOff()
+    {
+        var run = await SimulatedRun.RunAsync(SimulatedRun.BenchWithTap("{ kind: pushError, instrument: tap, afterCommands: 30, code: -230, detail: \"data stale\" }"));
+        Assert.Equal(RunEnd.InstrumentFailure, run.Outcome.End);
+        Assert.Contains("SIM::tap", run.Outcome.Message, StringComparison.Ordinal);
+        AssertSafeEnd(run);
+    }
+
     [Theory]
     [InlineData("dropConnection", "dmm", "")]
     [InlineData("truncatedReply", "dmm", "")]

@@ -63,6 +63,16 @@ internal sealed class SimulatedRun
         return Some.TempFile(text.ToString());
     }
 
+    /// <summary>The handheld bench with a shunt tap voltmeter (<c>SIM::tap</c>) added, and <paramref name="faults"/>.</summary>
+    public static string BenchWithTap(params string[] faults)
+    {
+        var text = File.ReadAllText(BenchWithFaults(faults)).Replace(
+            "  reference: { resource: \"SIM::ref\" }",
+            "  reference: { resource: \"SIM::ref\" }\n  shuntTap: { resource: \"SIM::tap\" }",
+            StringComparison.Ordinal);
+        return Some.TempFile(text);
+    }
+
     public static async Task<SimulatedRun> RunAsync(string benchFile, string sequence = Sequence, int seed = 1)
     {
         // A run that hangs must fail the test, not the test run.

@@ -24,6 +24,11 @@ internal static class TapSeparation
     {
         ArgumentNullException.ThrowIfNull(samples);
         ArgumentNullException.ThrowIfNull(options);
+        if (!samples.Any(s => s.ShuntTap is not null))
+        {
+            return null;
+        }
+
         var steps = samples.GroupBy(s => s.Step)
             .Where(g => g.Count() < options.ThermalHoldMinimumSamples)
             .OrderBy(g => g.Key)

@@ -1,3 +1,5 @@
+using System.Runtime.ExceptionServices;
+using ShuntSweep.Analysis.Fitting;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Analysis.Uncertainty;
 using ShuntSweep.Core.Records;
@@ -23,20 +25,33 @@ public static class Characteriser
             throw new ArgumentException("There are no samples to analyse.", nameof(samples));
         }
 
-        var analyses = new List<RangeAnalysis>();
-        var taps = new List<TapFit>();
-        foreach (var group in samples.GroupBy(s => s.Range))
+        // Ranges are independent: analyse them in parallel, keep their order, and report the first failing range's own exception.
+        var groups = samples.GroupBy(s => s.Range).Select(g => g.ToList()).ToList();
+        var analysed = new (RangeAnalysis Analysis, TapFit? Tap)[groups.Count];
+        var failures = new Exception?[groups.Count];
+        Parallel.For(0, groups.Count, k =>
         {
-            var rangeSamples = group.ToList();
-            var spec = uut?.Ranges.FirstOrDefault(r => r.Name == group.Key);
-            var jack = spec?.Jack ?? rangeSamples[0].Jack;
-            var fullScale = spec?.FullScale.Amperes ?? rangeSamples.Max(s => Math.Abs(s.Setpoint.Amperes));
-            analyses.Add(RangeAnalysis.Run(group.Key, jack, fullScale, spec, rangeSamples, options));
-            if (TapSeparation.Fit(group.Key, rangeSamples, options) is { } tap)
+            try
             {
-                taps.Add(tap);
+                var rangeSamples = groups[k];
+                var name = rangeSamples[0].Range;
+                var spec = uut?.Ranges.FirstOrDefault(r => r.Name == name);
+                var jack = spec?.Jack ?? rangeSamples[0].Jack;
+                var fullScale = spec?.FullScale.Amperes ?? rangeSamples.Max(s => Math.Abs(s.Setpoint.Amperes));
+                analysed[k] = (RangeAnalysis.Run(name, jack, fullScale, spec, rangeSamples, options), TapSeparation.Fit(name, rangeSamples, options));
             }
+            catch (Exception e) when (e is ArgumentException or FitFailedException or InvalidDataException)
+            {
+                failures[k] = e;
+            }
+        });
+        if (failures.FirstOrDefault(f => f is not null) is { } failure)
+        {
+            ExceptionDispatchInfo.Capture(failure).Throw();
         }
+
+        var analyses = analysed.Select(a => a.Analysis).ToList();
+        var taps = analysed.Where(a => a.Tap is not null).Select(a => a.Tap!).ToList();
 
         var ranges = analyses.Select(a => a.Result).ToList();
         var decomposition = JackDecomposer.Decompose(analyses, taps, uut, options);

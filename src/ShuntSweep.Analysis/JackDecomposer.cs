@@ -57,17 +57,13 @@ internal static class JackDecomposer
     /// <summary>Hypothesis: every shunt is at its nominal value, so R_range − R_nominal is the jack's common series part, the same for every range.</summary>
     private static Separation NominalShunts(List<(RangeAnalysis Range, double Nominal)> ranges)
     {
-        var c = ranges.Select(t => t.Range.Result.ResistanceOhms.Value - t.Nominal).ToArray();
-        var w = ranges.Select(t => 1 / Square(t.Range.Result.ResistanceOhms.StandardUncertainty)).ToArray();
-        var sw = w.Sum();
-        var mean = c.Zip(w, (ci, wi) => ci * wi).Sum() / sw;
-        var u = Math.Sqrt(1 / sw);
-        var chi2 = c.Zip(w, (ci, wi) => wi * Square(ci - mean)).Sum();
+        var (common, chi2) = WeightedMean(ranges.Select(t => new Estimate(t.Range.Result.ResistanceOhms.Value - t.Nominal, t.Range.Result.ResistanceOhms.StandardUncertainty)).ToList());
+        var (mean, u) = (common.Value, common.StandardUncertainty);
         var dof = ranges.Count - 1;
         var shunts = ranges.ToDictionary(
             t => t.Range.Result.Name,
             t => new Estimate(t.Range.Result.ResistanceOhms.Value - mean, Math.Sqrt(Math.Max(Square(t.Range.Result.ResistanceOhms.StandardUncertainty) - (u * u), 0))));
-        return Make("each shunt is at its nominal value; the rest of each range's resistance is the jack's common series part", new Estimate(mean, u), shunts, chi2, dof, null);
+        return Make("each shunt is at its nominal value; the rest of each range's resistance is the jack's common series part", common, shunts, chi2, dof, null);
     }
 
     /// <summary>Hypothesis: the shunts keep the ratios of their nominal values (one common scale factor S), R_range = S·R_nominal + R_common.</summary>
@@ -355,15 +351,12 @@ internal static class JackDecomposer
         var fuseEstimate = new Estimate(fuse, Math.Sqrt(Propagation.Variance(Fuse, at, cov)));
         var betaEstimate = new Estimate(betaF, Math.Sqrt(Propagation.Variance(BetaF, at, cov)));
         var rth = betaF / (options.FuseTemperatureCoefficient * fuse);
-        var p = 1 - ChiSquared.CDF(1, chi2);
-        return new Separation(
+        return Make(
             $"the thermal hold at {hold.CurrentA:G4} A shows the fuse as its fast term and the shunt as its slow term; the sweep's heating is split between them in the ratio of the hold's amplitudes",
             fuseEstimate,
             new Dictionary<string, Estimate> { [range.Result.Name] = new Estimate(Shunt(at), Math.Sqrt(Propagation.Variance(Shunt, at, cov))) },
             chi2,
             1,
-            p,
-            powerful ? p >= 0.05 : null,
             new Dictionary<string, Estimate>
             {
                 ["heatingCoefficientPerA2"] = betaEstimate,
@@ -372,13 +365,26 @@ internal static class JackDecomposer
                 ["fuseStepVolts"] = new Estimate(measured, uMeasured),
                 ["predictedFuseStepVolts"] = new Estimate(predicted, Math.Sqrt(Propagation.Variance(Predicted, at, cov))),
                 ["chiSquareWithoutSplit"] = new Estimate(chi2Unsplit, 0),
-            });
+            },
+            checkable: powerful);
     }
 
-    private static Separation Make(string hypothesis, Estimate common, Dictionary<string, Estimate> shunts, double chi2, int dof, Dictionary<string, Estimate>? extra)
+    /// <summary>A separation with its p-value; it is consistent when p ≥ 0.05, and unchecked when there are no degrees of freedom left or
+    /// the check could not have failed (<paramref name="checkable"/> false).</summary>
+    internal static Separation Make(string hypothesis, Estimate common, Dictionary<string, Estimate> shunts, double chi2, int dof, Dictionary<string, Estimate>? extra, bool checkable = true)
     {
         var p = dof > 0 ? 1 - ChiSquared.CDF(dof, chi2) : double.NaN;
-        return new Separation(hypothesis, common, shunts, chi2, dof, p, dof > 0 ? p >= 0.05 : null, extra);
+        return new Separation(hypothesis, common, shunts, chi2, dof, p, dof > 0 && checkable ? p >= 0.05 : null, extra);
+    }
+
+    /// <summary>The inverse-variance weighted mean of <paramref name="values"/> with its standard uncertainty, and χ² of their spread about it.</summary>
+    internal static (Estimate Mean, double ChiSquare) WeightedMean(IReadOnlyList<Estimate> values)
+    {
+        var w = values.Select(e => 1 / Square(e.StandardUncertainty)).ToArray();
+        var sw = w.Sum();
+        var mean = values.Select((e, i) => e.Value * w[i]).Sum() / sw;
+        var chi2 = values.Select((e, i) => w[i] * Square(e.Value - mean)).Sum();
+        return (new Estimate(mean, Math.Sqrt(1 / sw)), chi2);
     }
 
     private static LinearFit ExactLine(double[] x, double[] y, double[] w)

@@ -1,4 +1,3 @@
-using MathNet.Numerics.Distributions;
 using ShuntSweep.Analysis.Fitting;
 using ShuntSweep.Analysis.Models;
 using ShuntSweep.Analysis.Results;
@@ -54,27 +53,19 @@ internal static class TapSeparation
     public static Separation Separate(IReadOnlyList<TapFit> fits)
     {
         ArgumentNullException.ThrowIfNull(fits);
-        var series = fits.Select(f => f.SeriesOhms).ToList();
-        var w = series.Select(e => 1 / (e.StandardUncertainty * e.StandardUncertainty)).ToArray();
-        var sw = w.Sum();
-        var mean = series.Select((e, i) => e.Value * w[i]).Sum() / sw;
-        var chi2 = series.Select((e, i) => w[i] * (e.Value - mean) * (e.Value - mean)).Sum();
-        var dof = fits.Count - 1;
-        var p = dof > 0 ? 1 - ChiSquared.CDF(dof, chi2) : double.NaN;
+        var (common, chi2) = JackDecomposer.WeightedMean(fits.Select(f => f.SeriesOhms).ToList());
         var extra = new Dictionary<string, Estimate>();
         foreach (var f in fits)
         {
             extra["seriesOhms." + f.Range] = f.SeriesOhms;
         }
 
-        return new Separation(
+        return JackDecomposer.Make(
             "a tap voltmeter across each range's shunt reads the shunt alone; drop minus tap is the jack's series part (fuse, contacts), the same for every range of the jack",
-            new Estimate(mean, Math.Sqrt(1 / sw)),
+            common,
             fits.ToDictionary(f => f.Range, f => f.ShuntOhms),
             chi2,
-            dof,
-            p,
-            dof > 0 ? p >= 0.05 : null,
+            fits.Count - 1,
             extra);
     }
 

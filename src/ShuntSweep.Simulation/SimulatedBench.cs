@@ -128,14 +128,7 @@ public sealed class SimulatedBench : IAsyncDisposable
         var current = double.NaN;
         for (var iteration = 0; iteration < 1000; iteration++)
         {
-            double lo = 0, hi = volts.Volts;
-            for (var k = 0; k < 200 && hi - lo > 1e-16 * volts.Volts; k++)
-            {
-                var mid = 0.5 * (lo + hi);
-                (lo, hi) = Loop(mid) > 0 ? (lo, mid) : (mid, hi);
-            }
-
-            x = 0.5 * (lo + hi);
+            x = BenchCircuit.Bisect(Loop, 0, volts.Volts);
             var next = r.CurrentAt(x);
             const double forEver = 1e9;
             fuse.Advance(next * next * fuse.Resistance, forEver);

@@ -249,7 +249,8 @@ internal sealed class BenchCircuit
         return Bisect(Sign, lo, hi);
     }
 
-    private static double Bisect(Func<double, double> increasing, double lo, double hi)
+    /// <summary>The root of an increasing function on [<paramref name="lo"/>, <paramref name="hi"/>], bisected to machine precision.</summary>
+    internal static double Bisect(Func<double, double> increasing, double lo, double hi)
     {
         for (var i = 0; i < BisectionSteps; i++)
         {

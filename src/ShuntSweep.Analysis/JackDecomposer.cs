@@ -63,7 +63,7 @@ internal static class JackDecomposer
         var shunts = ranges.ToDictionary(
             t => t.Range.Result.Name,
             t => new Estimate(t.Range.Result.ResistanceOhms.Value - mean, Math.Sqrt(Math.Max(Square(t.Range.Result.ResistanceOhms.StandardUncertainty) - (u * u), 0))));
-        return Make("each shunt is at its nominal value; the rest of each range's resistance is the jack's common series part", common, shunts, chi2, dof, null);
+        return Make("nominal-shunts", "each shunt is at its nominal value; the rest of each range's resistance is the jack's common series part", common, shunts, chi2, dof, null);
     }
 
     /// <summary>Hypothesis: the shunts keep the ratios of their nominal values (one common scale factor S), R_range = S·R_nominal + R_common.</summary>
@@ -89,6 +89,7 @@ internal static class JackDecomposer
         var scale = new Estimate(fit.Parameters[1], Math.Sqrt(cov[1, 1]));
         var shunts = ranges.ToDictionary(t => t.Range.Result.Name, t => new Estimate(fit.Parameters[1] * t.Nominal, t.Nominal * scale.StandardUncertainty));
         return Make(
+            "shunt-ratio",
             "the shunts keep the ratios of their nominal values (one scale factor S); R_range = S·R_nominal + R_common",
             common,
             shunts,
@@ -254,6 +255,7 @@ internal static class JackDecomposer
         var rth = beta / (options.FuseTemperatureCoefficient * rc);
         var urth = Math.Abs(rth) * Math.Sqrt(Square(betaEst.StandardUncertainty / beta) + Square(rcEst.StandardUncertainty / rc));
         return Make(
+            "shared-heating",
             "only the jack's common element (fuse) heats; shunts are temperature-stable; R_common and its heating β are shared by the jack's heating ranges",
             rcEst,
             shunts,
@@ -352,6 +354,7 @@ internal static class JackDecomposer
         var betaEstimate = new Estimate(betaF, Math.Sqrt(Propagation.Variance(BetaF, at, cov)));
         var rth = betaF / (options.FuseTemperatureCoefficient * fuse);
         return Make(
+            "thermal-step",
             $"the thermal hold at {hold.CurrentA:G4} A shows the fuse as its fast term and the shunt as its slow term; the sweep's heating is split between them in the ratio of the hold's amplitudes",
             fuseEstimate,
             new Dictionary<string, Estimate> { [range.Result.Name] = new Estimate(Shunt(at), Math.Sqrt(Propagation.Variance(Shunt, at, cov))) },
@@ -371,10 +374,10 @@ internal static class JackDecomposer
 
     /// <summary>A separation with its p-value; it is consistent when p ≥ 0.05, and unchecked when there are no degrees of freedom left or
     /// the check could not have failed (<paramref name="checkable"/> false).</summary>
-    internal static Separation Make(string hypothesis, Estimate common, Dictionary<string, Estimate> shunts, double chi2, int dof, Dictionary<string, Estimate>? extra, bool checkable = true)
+    internal static Separation Make(string method, string hypothesis, Estimate common, Dictionary<string, Estimate> shunts, double chi2, int dof, Dictionary<string, Estimate>? extra, bool checkable = true)
     {
         var p = dof > 0 ? 1 - ChiSquared.CDF(dof, chi2) : double.NaN;
-        return new Separation(hypothesis, common, shunts, chi2, dof, p, dof > 0 && checkable ? p >= 0.05 : null, extra);
+        return new Separation(hypothesis, common, shunts, chi2, dof, p, dof > 0 && checkable ? p >= 0.05 : null, extra, method);
     }
 
     /// <summary>The inverse-variance weighted mean of <paramref name="values"/> with its standard uncertainty, and χ² of their spread about it.</summary>

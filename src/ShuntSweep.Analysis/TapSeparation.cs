@@ -61,6 +61,7 @@ internal static class TapSeparation
         }
 
         return JackDecomposer.Make(
+            "shunt-tap",
             "a tap voltmeter across each range's shunt reads the shunt alone; drop minus tap is the jack's series part (fuse, contacts), the same for every range of the jack",
             common,
             fits.ToDictionary(f => f.Range, f => f.ShuntOhms),

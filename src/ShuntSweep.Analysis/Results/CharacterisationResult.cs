@@ -190,6 +190,8 @@ public sealed record JackDecomposition(string Jack, IReadOnlyList<string> Ranges
 /// <param name="PValue">P(χ²_ν ≥ χ²): small values reject the hypothesis.</param>
 /// <param name="Consistent">Whether p ≥ 0.05; null when the separation is exactly determined and no check is possible.</param>
 /// <param name="Extra">Further quantities of the separation (heating coefficient, shunt scale), by name.</param>
+/// <param name="Method">What separated the parts, as a stable name: <c>shunt-tap</c>, <c>nominal-shunts</c>, <c>shunt-ratio</c>,
+/// <c>shared-heating</c> or <c>thermal-step</c> (empty in results written before it was recorded).</param>
 public sealed record Separation(
     string Hypothesis,
     Estimate CommonSeriesOhms,
@@ -198,4 +200,5 @@ public sealed record Separation(
     int DegreesOfFreedom,
     double PValue,
     bool? Consistent,
-    IReadOnlyDictionary<string, Estimate>? Extra = null);
+    IReadOnlyDictionary<string, Estimate>? Extra = null,
+    string Method = "");

@@ -192,7 +192,7 @@ internal static class RunPlots
         foreach (var jack in jacks)
         {
             // A shunt tap measures the split, so it is drawn unless its own check rejects it; otherwise the first consistent hypothesis.
-            var separation = jack.Separations.FirstOrDefault(s => s.Hypothesis.StartsWith("a tap voltmeter", StringComparison.Ordinal) && s.Consistent != false)
+            var separation = jack.Separations.FirstOrDefault(s => s.Method == "shunt-tap" && s.Consistent != false)
                 ?? jack.Separations.FirstOrDefault(s => s.Consistent == true)
                 ?? (jack.Separations.Count > 0 ? jack.Separations[0] : null);
             if (separation is null)

@@ -64,7 +64,7 @@ internal static class SupplyInstrument
     /// <summary>Averages a quantity over the readback time on the bench clock, as a MEASure? of the supply or load does.</summary>
     internal static async ValueTask<double> Readback(BenchCircuit circuit, IBenchClock clock, TimeSpan time, Func<OperatingPoint, double> probe)
     {
-        var window = circuit.Arm(clock.Now(), time, probe);
+        var window = circuit.Arm(TimeSpan.Zero, 1, time, time, probe)[0];
         await clock.WaitUntilAsync(window.End);
         return circuit.Complete(window);
     }

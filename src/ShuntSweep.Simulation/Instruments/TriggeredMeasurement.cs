@@ -20,10 +20,9 @@ internal sealed class TriggeredMeasurement(BenchCircuit circuit, IBenchClock clo
     public void Arm(int samples, TimeSpan integration, TimeSpan period, TimeSpan overhead, Func<OperatingPoint, double> probe, Func<double, double> finish)
     {
         circuit.Cancel(_armed);
-        var start = clock.Now() + overhead;
-        _armed = Enumerable.Range(0, samples).Select(k => circuit.Arm(start + (k * period), integration, probe)).ToList();
+        _armed = [.. circuit.Arm(overhead, samples, period, integration, probe)];
         _finish = Enumerable.Repeat(finish, samples).ToArray();
-        _ready = start + ((samples - 1) * period) + integration;
+        _ready = _armed.Count > 0 ? _armed[^1].End : clock.Now();
         _last = null;
     }
 

@@ -102,15 +102,20 @@ internal sealed class BenchCircuit
         }
     }
 
-    /// <summary>Arms an averaging window from <paramref name="start"/> lasting <paramref name="length"/> over the quantity <paramref name="probe"/> picks.</summary>
-    public Window Arm(DateTimeOffset start, TimeSpan length, Func<OperatingPoint, double> probe)
+    /// <summary>Arms <paramref name="count"/> averaging windows of <paramref name="length"/>, one per <paramref name="period"/>, the first
+    /// <paramref name="delay"/> after the present instant, over the quantity <paramref name="probe"/> picks.</summary>
+    /// <remarks>The windows are placed from the instant the physics has been brought to under the lock, never from a time read before it:
+    /// on a clock that runs on its own (a served bench, faster than real time) a window placed from an earlier reading could start, or even
+    /// end, before the physics it averages is integrated, and would average nothing.</remarks>
+    public IReadOnlyList<Window> Arm(TimeSpan delay, int count, TimeSpan period, TimeSpan length, Func<OperatingPoint, double> probe)
     {
         lock (_gate)
         {
             AdvanceTo(_now());
-            var window = new Window(start, start + length, probe);
-            _windows.Add(window);
-            return window;
+            var start = _time + delay;
+            var windows = Enumerable.Range(0, count).Select(k => new Window(start + (k * period), start + (k * period) + length, probe)).ToList();
+            _windows.AddRange(windows);
+            return windows;
         }
     }
 

@@ -16,10 +16,12 @@ public static class RunReport
     /// <summary>Writes the report of the run in <paramref name="runDirectory"/> and returns the full path of <c>report.html</c>.</summary>
     /// <param name="runDirectory">A run directory holding at least <c>result.json</c>.</param>
     /// <param name="time">The clock that dates the report; the system clock when null.</param>
+    /// <param name="showPaths">Whether the report names files with their folders and the run directory; off for reports that must not differ
+    /// between machines.</param>
     /// <exception cref="DirectoryNotFoundException">When the directory does not exist.</exception>
     /// <exception cref="FileNotFoundException">When it has no <c>result.json</c>.</exception>
     /// <exception cref="InvalidDataException">When a record in it is malformed (the message names the file and position).</exception>
-    public static string Write(string runDirectory, TimeProvider? time = null)
+    public static string Write(string runDirectory, TimeProvider? time = null, bool showPaths = true)
     {
         ArgumentNullException.ThrowIfNull(runDirectory);
         var run = RunRecords.Load(runDirectory);
@@ -32,7 +34,7 @@ public static class RunReport
             File.WriteAllText(Path.Combine(plotDir, p.Name + ".svg"), p.Svg);
         }
 
-        var html = ReportHtml.Build(run, plots, (time ?? TimeProvider.System).GetUtcNow(), Software);
+        var html = ReportHtml.Build(run, plots, (time ?? TimeProvider.System).GetUtcNow(), Software, showPaths);
         var path = Path.Combine(run.Directory, FileName);
         File.WriteAllText(path + ".tmp", html);
         File.Move(path + ".tmp", path, overwrite: true);

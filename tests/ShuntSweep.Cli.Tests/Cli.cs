@@ -1,8 +1,9 @@
+using System.Diagnostics;
 using Xunit;
 
 namespace ShuntSweep.Cli.Tests;
 
-/// <summary>Runs <c>shuntsweep</c> in-process, as a user would from the shell.</summary>
+/// <summary>Runs <c>shuntsweep</c> in-process, or as a child process when standard output and error must be told apart, as a user would from the shell.</summary>
 internal static class Cli
 {
     private static readonly SemaphoreSlim OneAtATime = new(1, 1);
@@ -17,11 +18,41 @@ internal static class Cli
         await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
         try
         {
-            return await ShuntSweepCommandLine.Create().Parse(args).InvokeAsync(cancellationToken: TestContext.Current.CancellationToken);
+            return await ShuntSweepCommandLine.InvokeAsync(args, cancellationToken: TestContext.Current.CancellationToken);
         }
         finally
         {
             OneAtATime.Release();
         }
+    }
+
+    /// <summary>Runs <c>shuntsweep</c> as a child process with its output piped and <paramref name="environment"/> added to its environment.</summary>
+    public static async Task<(int Exit, string Out, string Err)> RunProcessAsync(IReadOnlyDictionary<string, string?> environment, params string[] args)
+    {
+        var ct = TestContext.Current.CancellationToken;
+        var start = new ProcessStartInfo("dotnet")
+        {
+            RedirectStandardOutput = true,
+            RedirectStandardError = true,
+            RedirectStandardInput = true,
+        };
+        start.ArgumentList.Add(Path.Combine(AppContext.BaseDirectory, "shuntsweep.dll"));
+        foreach (var a in args)
+        {
+            start.ArgumentList.Add(a);
+        }
+
+        start.Environment["COLUMNS"] = null;
+        foreach (var (key, value) in environment)
+        {
+            start.Environment[key] = value;
+        }
+
+        using var child = Process.Start(start)!;
+        child.StandardInput.Close();
+        var output = child.StandardOutput.ReadToEndAsync(ct);
+        var error = child.StandardError.ReadToEndAsync(ct);
+        await child.WaitForExitAsync(ct);
+        return (child.ExitCode, await output, await error);
     }
 }

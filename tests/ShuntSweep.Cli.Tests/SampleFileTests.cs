@@ -24,14 +24,15 @@ public sealed class SampleFileTests
 
     [Theory]
     [MemberData(nameof(Sequences))]
-    public async Task EverySequence_PlansSafely_AndRunsOnItsBench(string file)
+    public async Task EverySequence_PlansSafely_AndRunsWithNoBenchGiven_OnTheBenchItNames(string file)
     {
         var path = Repo.File(Path.Combine("sequences", file));
-        var benchFile = BenchFor(path);
-        var plan = Planner.Plan(SequenceReader.Load(path), BenchReader.Load(benchFile));
+        var sequence = SequenceReader.Load(path);
+        Assert.NotNull(sequence.Bench);
+        var plan = Planner.Plan(sequence, BenchReader.Load(sequence.Bench));
         Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
         var dir = Testing.Some.TempDirectory();
-        Assert.Equal(ExpectedExit(path), await Cli.RunAsync("run", path, "--bench", benchFile, "--out", dir));
+        Assert.Equal(ExpectedExit(path), await Cli.RunAsync("run", path, "--out", dir, "--no-archive"));
         Assert.True(File.Exists(Path.Combine(dir, "result.json")));
     }
 
@@ -50,12 +51,5 @@ public sealed class SampleFileTests
         var example = readme[start..readme.IndexOf("```", start, StringComparison.Ordinal)];
         var plan = Planner.Plan(SequenceReader.Parse(example, "README.md"), BenchReader.Load(Repo.File("simulators/handheld-tarnwell-tw18.yaml")));
         Assert.True(plan.IsSafe, string.Join("; ", plan.Violations.Select(v => v.Message)));
-    }
-
-    /// <summary>A sequence names its bench in a leading comment line <c># bench: simulators/x.yaml</c>; the default bench otherwise.</summary>
-    private static string BenchFor(string sequence)
-    {
-        var line = File.ReadLines(sequence).FirstOrDefault(l => l.StartsWith("# bench:", StringComparison.Ordinal));
-        return Repo.File(line is null ? "simulators/handheld-tarnwell-tw18.yaml" : line["# bench:".Length..].Trim());
     }
 }

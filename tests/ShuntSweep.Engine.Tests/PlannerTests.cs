@@ -55,10 +55,12 @@ public sealed class PlannerTests
     }
 
     [Fact]
-    public void Plan_RefusesUnknownRange_NamingTheKnownOnes()
+    public void Plan_UnknownRange_IsInvalidInputAtItsOwnStep_NamingTheKnownOnes()
     {
-        var plan = Plan("  - sweep: { range: 6A, currents: [1 A] }\n");
-        Assert.Contains(plan.Violations, v => v.Message.Contains("60mA, 400mA, 10A", StringComparison.Ordinal));
+        var e = Assert.Throws<Core.Documents.DocumentException>(() => Plan("  - sweep: { range: 60mA, currents: [1 mA] }\n  - sweep: { range: 6A, currents: [1 A] }\n"));
+        Assert.Contains("60mA, 400mA, 10A", e.Problem, StringComparison.Ordinal);
+        Assert.Contains("step 2 of the sequence", e.Problem, StringComparison.Ordinal);
+        Assert.True(e.Line > 0 && e.Column > 0, e.Message);
     }
 
     [Fact]

@@ -13,7 +13,7 @@ internal static class CompareCommand
     {
         var resultArg = new Argument<string>("result") { Description = "The result to check: a result.json or a run directory." };
         var goldenArg = new Argument<string>("golden") { Description = "The golden result: a result.json or a run directory." };
-        var toleranceOpt = new Option<string?>("--tolerance") { Description = "Allowed relative change of resistance and burden at full scale: 0.5% or 0.005. Default 1%." };
+        var toleranceOpt = new Option<string?>("--tolerance") { Description = "Allowed relative change of resistance and burden at full scale, with its unit: '0.5 %' or '500 ppm' (a bare number is refused as ambiguous). Default 1 %." };
         var offsetOpt = new Option<string?>("--offset-tolerance") { Description = "Allowed absolute change of the offset, for example 50 uV. Default 100 uV." };
         var junitOpt = new Option<string?>("--junit") { Description = "Also write the checks as JUnit XML to this file." };
         var command = new Command("compare", "Compare a result with a golden result range by range; exit 1 beyond tolerance.")

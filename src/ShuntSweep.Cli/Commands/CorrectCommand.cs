@@ -46,7 +46,7 @@ internal static class CorrectCommand
                 AnsiConsole.Write(table);
                 if (c.Extrapolated)
                 {
-                    AnsiConsole.MarkupLine("[yellow]note:[/] the reading is beyond the currents the range was characterised at; the correction is an extrapolation.");
+                    Terminal.Note("note", "the reading is beyond the currents the range was characterised at; the correction is an extrapolation.");
                 }
 
                 return Task.FromResult(ExitCodes.Success);

@@ -25,7 +25,7 @@ internal static class FitCommand
             var contents = JournalCsv.Read(journalPath);
             if (contents.TornTail)
             {
-                AnsiConsole.MarkupLine("[yellow]note:[/] the journal's last line was incomplete (an interrupted write) and was left out.");
+                Terminal.Note("note", "the journal's last line was incomplete (an interrupted write) and was left out.");
             }
 
             var uutPath = parse.GetValue(uutOpt);
@@ -43,7 +43,7 @@ internal static class FitCommand
     /// <summary>Prints one row per range: model, resistance ± expanded uncertainty, offset, burden at full scale.</summary>
     public static void ShowRanges(CharacterisationResult result)
     {
-        var table = new Table().Title("Characterisation per range").Expand()
+        var table = new Table().Title("Characterisation per range")
             .AddColumns("range", "jack", "FS", "model", "R ± U (k=2)", "offset", "drop @ FS", "points");
         foreach (var r in result.Ranges)
         {

@@ -18,8 +18,8 @@ internal static class HistoryCommand
         {
             Description = $"An SQLite file, an SQLite connection string (Data Source=...) or a PostgreSQL connection string (Host=...); default ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath}.",
         };
-        var driftOpt = new Option<string?>("--drift-limit") { Description = "The allowed change from the first archived run: a percentage (0.5%) or a resistance (2 mohm). Default 1%." };
-        var plotOpt = new Option<string?>("--plot") { Description = "Where to write the history plot, without extension (.png and .svg are written). Default history-<serial> in the working folder." };
+        var driftOpt = new Option<string?>("--drift-limit") { Description = "The allowed change from the first archived run, with its unit: '0.5 %', '500 ppm' or a resistance ('2 mohm'). Default 1 %." };
+        var plotOpt = new Option<string?>("--plot") { Description = "Also write the history plot here, without extension (.png and .svg are written). No plot is written without it." };
         var command = new Command("history", "List the archived runs of a UUT and each range's resistance over time; exit 1 when a range drifted beyond the limit.")
         {
             serialArg, archiveOpt, driftOpt, plotOpt,
@@ -45,7 +45,7 @@ internal static class HistoryCommand
                     Markup.Escape($"{r.Manufacturer} {r.Model}"),
                     Markup.Escape(r.AssetId ?? "—"),
                     Markup.Escape(r.BenchName) + (r.Simulated ? " (sim)" : string.Empty),
-                    Markup.Escape(r.RunEnd ?? "—"),
+                    Markup.Escape(r.RunEnd is null ? "—" : ShuntSweep.Reporting.RunEndWords.Describe(r.RunEnd)),
                     Markup.Escape(r.Verdict ?? "—"));
             }
 
@@ -70,8 +70,12 @@ internal static class HistoryCommand
                 AnsiConsole.Write(table);
             }
 
-            var (png, svg) = HistoryPlot.Write(history, limit, parse.GetValue(plotOpt) ?? HistoryPlot.DefaultStem(serial));
-            AnsiConsole.MarkupLineInterpolated($"Plot: {png}, {svg}");
+            if (parse.GetValue(plotOpt) is { } stem)
+            {
+                var (png, svg) = HistoryPlot.Write(history, limit, stem);
+                AnsiConsole.MarkupLineInterpolated($"Plot: {png}, {svg}");
+            }
+
             if (drifted > 0)
             {
                 AnsiConsole.MarkupLineInterpolated($"[red]{drifted} reading(s) drifted beyond {limit}.[/]");

@@ -13,12 +13,12 @@ internal static class PlanCommand
     public static Command Create()
     {
         var sequenceArg = new Argument<string>("sequence") { Description = "The sequence file to plan." };
-        var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: {BenchHost.DefaultBench})." };
+        var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the sequence's bench: key, else {BenchHost.DefaultBench})." };
         var command = new Command("plan", "Expand a sequence into steps, check it against the UUT and the bench, estimate its duration.") { sequenceArg, benchOpt };
         command.SetAction((parse, _) => Terminal.GuardAsync(() =>
         {
             var sequence = SequenceReader.Load(parse.GetValue(sequenceArg)!);
-            var bench = BenchReader.Load(BenchHost.Locate(parse.GetValue(benchOpt)));
+            var bench = BenchReader.Load(BenchHost.Locate(parse.GetValue(benchOpt) ?? sequence.Bench));
             var plan = Planner.Plan(sequence, bench);
             return Task.FromResult(Show(sequence, bench, plan, brief: false) ? ExitCodes.Success : ExitCodes.UnsafePlan);
         }));
@@ -55,12 +55,12 @@ internal static class PlanCommand
         AnsiConsole.MarkupLineInterpolated($"{plan.Steps.Count} steps, {plan.SampleCount} samples, estimated {plan.EstimatedDuration.TotalSeconds:0.#} s on the bench.");
         foreach (var v in plan.Violations)
         {
-            AnsiConsole.MarkupLineInterpolated($"[red]unsafe:[/] {sequence.File}:{v.Line}: step {v.Step}: {v.Message}");
+            Terminal.Error.MarkupLineInterpolated($"[red]unsafe:[/] {sequence.File}:{v.Line}: plan step {v.Step}: {v.Message}");
         }
 
         if (!plan.IsSafe)
         {
-            AnsiConsole.MarkupLineInterpolated($"[red]The plan is refused ({plan.Violations.Count} problem(s)); no output was touched.[/]");
+            Terminal.Error.MarkupLineInterpolated($"[red]The plan is refused ({plan.Violations.Count} problem(s)); no output was touched.[/]");
         }
 
         return plan.IsSafe;

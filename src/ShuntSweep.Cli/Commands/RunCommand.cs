@@ -3,6 +3,7 @@ using System.Globalization;
 using Serilog;
 using Serilog.Formatting.Compact;
 using ShuntSweep.Analysis;
+using ShuntSweep.Analysis.Results;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Records;
@@ -13,6 +14,7 @@ using ShuntSweep.Engine.Running;
 using ShuntSweep.Engine.Sequences;
 using ShuntSweep.Reporting;
 using ShuntSweep.Reporting.Archive;
+using ShuntSweep.Reporting.Comparison;
 using Spectre.Console;
 
 namespace ShuntSweep.Cli.Commands;
@@ -23,23 +25,37 @@ internal static class RunCommand
     public static Command Create()
     {
         var sequenceArg = new Argument<string?>("sequence") { Description = "The sequence file to run (not needed with --resume).", Arity = ArgumentArity.ZeroOrOne };
-        var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the bundled simulated bench {BenchHost.DefaultBench})." };
+        var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the sequence's bench: key, else the bundled simulated bench {BenchHost.DefaultBench})." };
         var outOpt = new Option<string?>("--out") { Description = "The run directory (default: runs/<UTC timestamp>)." };
         var seedOpt = new Option<int>("--seed") { Description = "The seed of the simulated bench.", DefaultValueFactory = _ => 1 };
         var answersOpt = new Option<string?>("--answers") { Description = "Answers to operator prompts for unattended runs (prompt id: done|abort, otherwise: done|abort)." };
         var resumeOpt = new Option<string?>("--resume") { Description = "Continue the interrupted run in this directory after its last completed step." };
         var archiveOpt = new Option<string?>("--archive") { Description = $"Where the run is archived: an SQLite file, or a PostgreSQL connection string (default: ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath})." };
+        var noArchiveOpt = new Option<bool>("--no-archive") { Description = "Do not record the run in the archive." };
+        var jsonOpt = new Option<string?>("--json") { Description = "Also write a JSON summary of the run to this file; '-' writes it to standard output instead of the tables." };
+        var junitOpt = new Option<string?>("--junit") { Description = "Also write the run's checks (completed, outputs off, each range's conformity) as JUnit XML to this file." };
+        var reproducibleOpt = new Option<bool>("--reproducible")
+        {
+            Description = "Date the report, summary and JUnit file by the run's own start and leave folders out of them, so that the same run diffs clean in CI.",
+        };
         var command = new Command("run", "Run a sequence on a bench, journal every sample, then fit and report.")
         {
-            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt,
+            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt, noArchiveOpt, jsonOpt, junitOpt, reproducibleOpt,
         };
         command.SetAction((parse, ct) => Terminal.GuardAsync(() => ExecuteAsync(
-            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt), ct)));
+            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt),
+            new RunOutputOptions(parse.GetValue(noArchiveOpt), parse.GetValue(jsonOpt), parse.GetValue(junitOpt), parse.GetValue(reproducibleOpt)), ct)));
         return command;
     }
 
-    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, CancellationToken ct)
+    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, RunOutputOptions outputs, CancellationToken ct)
     {
+        if (outputs.Json == "-")
+        {
+            // Standard output carries the JSON alone; errors and cautions still go to standard error.
+            Terminal.Configure(quiet: true);
+        }
+
         RunManifest? previous = null;
         if (resume is not null)
         {
@@ -65,6 +81,7 @@ internal static class RunCommand
         }
 
         var sequence = SequenceReader.Load(sequencePath);
+        benchPath ??= sequence.Bench;
         var benchFile = BenchHost.Locate(benchPath);
         var bench = BenchReader.Load(benchFile);
         var plan = Planner.Plan(sequence, bench);
@@ -77,7 +94,7 @@ internal static class RunCommand
         {
             foreach (var note in ShuntSweep.Reporting.SafetyNotes.General)
             {
-                AnsiConsole.MarkupLineInterpolated($"[yellow]caution:[/] {note}");
+                Terminal.Note("caution", note);
             }
         }
 
@@ -165,14 +182,21 @@ internal static class RunCommand
 
         wall.Stop();
         var colour = outcome.End == RunEnd.Completed ? "green" : "red";
-        AnsiConsole.MarkupLineInterpolated($"[{colour}]{outcome.End}[/]: {outcome.Message}");
-        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "[red]NOT confirmed off — check the bench now[/]")}. Simulated time {(clock.Now() - start).TotalSeconds:0.0} s, wall time {wall.Elapsed.TotalSeconds:0.00} s.");
+        var ended = RunEndWords.Describe(outcome.End.ToString());
+        AnsiConsole.MarkupLineInterpolated($"[{colour}]{char.ToUpperInvariant(ended[0]) + ended[1..]}[/]: {outcome.Message}");
+        if (!outcome.OutputsConfirmedOff)
+        {
+            Terminal.Fail("the outputs were NOT confirmed off — check the bench now.", ExitCodes.InstrumentFailure);
+        }
+
+        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "NOT confirmed off")}. {(bench.IsSimulated ? "Simulated" : "Bench")} time {(clock.Now() - start).TotalSeconds:0.0} s, wall time {wall.Elapsed.TotalSeconds:0.00} s.");
 
         var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
         var samples = JournalCsv.Read(journalPath).Samples;
+        CharacterisationResult? result = null;
         if (samples.Count > 0)
         {
-            var result = Characteriser.Analyse(samples, bench.Uut);
+            result = Characteriser.Analyse(samples, bench.Uut);
             var resultPath = Path.Combine(outDir, "result.json");
             ResultJson.Write(result, resultPath);
             FitCommand.ShowRanges(result);
@@ -181,23 +205,47 @@ internal static class RunCommand
 
         // The report and the archive record whatever the run got, also after an abort: the as-found record matters most then.
         // They run after the outputs are off and must not be interrupted half-way by the Ctrl-C that ended the run.
-        var report = RunReport.Write(outDir);
-        var location = ArchiveLocation.Resolve(archive);
-        await using (var store = await location.OpenAsync(cancellationToken: CancellationToken.None))
+        // Under --reproducible every date written is the run's own start (virtual time on a simulated bench), not the wall clock.
+        var dating = outputs.Reproducible ? new VirtualTimeProvider(start) : TimeProvider.System;
+        var report = RunReport.Write(outDir, dating, showPaths: !outputs.Reproducible);
+        string? archived = null;
+        if (!outputs.NoArchive)
         {
-            await store.RecordRunAsync(outDir, CancellationToken.None);
+            var location = ArchiveLocation.Resolve(archive);
+            await using (var store = await location.OpenAsync(cancellationToken: CancellationToken.None))
+            {
+                await store.RecordRunAsync(outDir, CancellationToken.None);
+            }
+
+            archived = location.Display;
         }
 
-        AnsiConsole.MarkupLineInterpolated($"Report: {report}. Archived in {location.Display}.");
+        AnsiConsole.MarkupLineInterpolated($"Report: {report}. {(archived is null ? "Not archived (--no-archive)" : $"Archived in {archived}")}.");
 
-        return outcome.End switch
+        var exitCode = outcome.End switch
         {
             RunEnd.Completed => ExitCodes.Success,
             RunEnd.SafetyAbort => ExitCodes.SafetyAbort,
             RunEnd.InstrumentFailure => ExitCodes.InstrumentFailure,
             _ => ExitCodes.Interrupted,
         };
+        if (outputs.Json is { } json)
+        {
+            RunOutputs.Summary(sequence.Title, bench, seed, outcome, exitCode, plan.Steps.Count, result, outputs.Reproducible ? null : Path.GetFullPath(outDir), outputs.Reproducible ? null : archived)
+                .Write(json);
+        }
+
+        if (outputs.Junit is { } junit)
+        {
+            JUnitReport.Write(JUnitReport.Build("shuntsweep run", sequence.Title, RunOutputs.Checks(outcome, result), dating.GetUtcNow()), junit);
+            AnsiConsole.MarkupLineInterpolated($"JUnit XML: {junit}");
+        }
+
+        return exitCode;
     }
+
+    /// <summary>What a run writes besides its run directory, and how.</summary>
+    private sealed record RunOutputOptions(bool NoArchive, string? Json, string? Junit, bool Reproducible);
 
     /// <summary>Reports progress on the caller's thread, so the bar always shows the latest step.</summary>
     private sealed class SynchronousProgress(Action<RunProgress> report) : IProgress<RunProgress>

@@ -1,4 +1,5 @@
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Documents;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Uut;
 using ShuntSweep.Engine.Running;
@@ -39,12 +40,13 @@ public static class Planner
                 RampItem r => r.Range,
                 _ => throw new InvalidOperationException($"Unknown sequence item {item.GetType().Name}."),
             };
-            var spec = uut.Ranges.FirstOrDefault(r => r.Name == rangeName);
-            if (spec is null)
-            {
-                violations.Add(new PlanViolation(steps.Count, item.Line, $"the UUT has no range '{rangeName}'; it has {string.Join(", ", uut.Ranges.Select(r => r.Name))}."));
-                continue;
-            }
+            var spec = uut.Ranges.FirstOrDefault(r => r.Name == rangeName)
+                ?? throw new DocumentException(
+                    sequence.File,
+                    item.Line,
+                    item.Column,
+                    $"step {Position(sequence, item)} of the sequence uses range '{rangeName}', but the UUT of bench '{bench.Name}' ({uut.Manufacturer} {uut.Model}) "
+                    + $"has no such range; it has {string.Join(", ", uut.Ranges.Select(r => r.Name))}. Is this the bench the sequence is written for (its bench: key, or --bench)?");
 
             if (spec.Jack != jack)
             {
@@ -112,6 +114,20 @@ public static class Planner
         }
 
         return limits.MaxDrop;
+    }
+
+    /// <summary>The 1-based position of <paramref name="item"/> among the sequence's steps, as the author counts them.</summary>
+    private static int Position(Sequence sequence, SequenceItem item)
+    {
+        for (var i = 0; i < sequence.Items.Count; i++)
+        {
+            if (ReferenceEquals(sequence.Items[i], item))
+            {
+                return i + 1;
+            }
+        }
+
+        return 0;
     }
 
     private static IEnumerable<Current> CurrentsOf(CurrentStep step) => step switch

@@ -81,7 +81,7 @@ public sealed class Runner
             }
 
             _progress?.Report(new RunProgress(done, _plan.Steps.Count, "done"));
-            outcome = new RunOutcome(RunEnd.Completed, $"All {_plan.Steps.Count} steps completed.", done, false);
+            outcome = new RunOutcome(RunEnd.Completed, $"All {_plan.Steps.Count} plan steps completed ({_plan.Steps.Count(s => s is MeasureStep or HoldStep)} measurement and hold steps journalled, {_plan.Steps.Count(s => s is not (MeasureStep or HoldStep))} operator and ramp steps).", done, false);
         }
         catch (SafetyAbortException ex)
         {

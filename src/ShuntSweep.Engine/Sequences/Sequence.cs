@@ -7,7 +7,11 @@ namespace ShuntSweep.Engine.Sequences;
 /// <param name="File">The file the sequence came from.</param>
 /// <param name="Limits">The safety limits that apply to every step.</param>
 /// <param name="Items">The steps in the order they run.</param>
-public sealed record Sequence(string Title, string File, SafetyLimits Limits, IReadOnlyList<SequenceItem> Items);
+public sealed record Sequence(string Title, string File, SafetyLimits Limits, IReadOnlyList<SequenceItem> Items)
+{
+    /// <summary>The bench file the sequence is written for (its <c>bench:</c> key, relative to the sequence file), used when no bench is given.</summary>
+    public string? Bench { get; init; }
+}
 
 /// <summary>The safety limits a sequence runs under.</summary>
 /// <param name="MaxDrop">The largest burden voltage allowed before the run aborts; null means the worst case is taken from the UUT specification.</param>
@@ -52,7 +56,11 @@ public sealed record Settling(TimeSpan Dwell, int AgreeCount, double Tolerance, 
 public sealed record PointSettings(Settling Settling, int Samples, double Nplc, Readings Read);
 
 /// <summary>One item of a sequence.</summary>
-public abstract record SequenceItem(int Line);
+public abstract record SequenceItem(int Line)
+{
+    /// <summary>The column of the item in its file.</summary>
+    public int Column { get; init; }
+}
 
 /// <summary>A sweep of currents through one range.</summary>
 /// <param name="Line">The line of the item in its file.</param>

@@ -85,6 +85,7 @@ public static class SequenceReader
     {
         var title = doc.Text("sequence");
         doc.StringOr("description", null);
+        var bench = doc.StringOr("bench", null) is { } b ? Path.Combine(Path.GetDirectoryName(doc.File) ?? string.Empty, b) : null;
         doc.Optional("parameters");
 
         var defaultsMap = doc.Mapping("defaults");
@@ -130,7 +131,7 @@ public static class SequenceReader
         }
 
         doc.Finish();
-        return new Sequence(title, doc.File, limits, items);
+        return new Sequence(title, doc.File, limits, items) { Bench = bench };
     }
 
     private static SweepItem ReadSweep(NodeReader node, PointSettings defaults)
@@ -175,7 +176,7 @@ public static class SequenceReader
 
         var settings = ReadSettings(map, defaults);
         map.Finish();
-        return new SweepItem(node.Line, range, currents, settings);
+        return new SweepItem(node.Line, range, currents, settings) { Column = node.Column };
     }
 
     private static IEnumerable<CurrentValue> Series(MappingReader map, bool logarithmic)
@@ -221,7 +222,7 @@ public static class SequenceReader
 
         var settings = ReadSettings(map, defaults with { Samples = 1 });
         map.Finish();
-        return new HoldItem(node.Line, range, current, duration, TimeSpan.FromSeconds(1 / rate), settings);
+        return new HoldItem(node.Line, range, current, duration, TimeSpan.FromSeconds(1 / rate), settings) { Column = node.Column };
     }
 
     private static RampItem ReadRamp(NodeReader node)
@@ -233,7 +234,7 @@ public static class SequenceReader
             ReadCurrent(map.Required("from")),
             ReadCurrent(map.Required("to")),
             TimeSpan.FromSeconds(map.Quantity("duration", SiUnit.Second)),
-            map.IntOr("steps", 10, 1, 10_000));
+            map.IntOr("steps", 10, 1, 10_000)) { Column = node.Column };
         map.Finish();
         return item;
     }

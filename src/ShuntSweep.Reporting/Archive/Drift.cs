@@ -11,17 +11,21 @@ public sealed record DriftLimit(double Fraction, double? AbsoluteOhms = null)
     /// <summary>The default limit: 1 % of the first archived value.</summary>
     public static DriftLimit Default { get; } = new(0.01);
 
-    /// <summary>Parses <c>0.5%</c> (a fraction of the first value) or a resistance such as <c>2 mΩ</c> / <c>2 mohm</c>.</summary>
+    /// <summary>Parses <c>0.5 %</c> or <c>500 ppm</c> (a fraction of the first value) or a resistance such as <c>2 mΩ</c> / <c>2 mohm</c>;
+    /// a bare number is refused as ambiguous.</summary>
     /// <exception cref="FormatException">When the text is neither, or not positive.</exception>
     public static DriftLimit Parse(string text)
     {
         ArgumentNullException.ThrowIfNull(text);
         var t = text.Trim();
-        if (t.EndsWith('%'))
+        if (RelativeParser.IsRelative(t))
         {
-            return double.TryParse(t[..^1].Trim(), NumberStyles.Float, CultureInfo.InvariantCulture, out var percent) && percent > 0 && double.IsFinite(percent)
-                ? new DriftLimit(percent / 100)
-                : throw new FormatException($"Drift limit '{text}': expected a positive percentage such as 0.5% or a resistance such as 2 mohm.");
+            return new DriftLimit(RelativeParser.ParsePositiveFraction(t, "Drift limit"));
+        }
+
+        if (double.TryParse(t, NumberStyles.Float, CultureInfo.InvariantCulture, out _))
+        {
+            throw new FormatException($"Drift limit '{text}' has no unit and is ambiguous: write a percentage (0.5 %), ppm (500 ppm) or a resistance (2 mohm).");
         }
 
         double ohms;

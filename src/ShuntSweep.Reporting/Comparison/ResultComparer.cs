@@ -12,17 +12,9 @@ public sealed record CompareTolerance(double Fraction, double OffsetVolts)
     /// <summary>The default tolerance: 1 % on resistance and burden, 100 µV on the offset.</summary>
     public static CompareTolerance Default { get; } = new(0.01, 100e-6);
 
-    /// <summary>Parses a relative tolerance: <c>0.5%</c>, or a plain fraction such as <c>0.005</c>.</summary>
-    /// <exception cref="FormatException">When the text is not a positive percentage or fraction.</exception>
-    public static double ParseFraction(string text)
-    {
-        ArgumentNullException.ThrowIfNull(text);
-        var t = text.Trim();
-        var percent = t.EndsWith('%');
-        return double.TryParse(percent ? t[..^1].Trim() : t, NumberStyles.Float, CultureInfo.InvariantCulture, out var v) && v > 0 && double.IsFinite(v)
-            ? (percent ? v / 100 : v)
-            : throw new FormatException($"Tolerance '{text}': expected a positive percentage such as 0.5% or a fraction such as 0.005.");
-    }
+    /// <summary>Parses a relative tolerance with its unit: <c>0.5 %</c> or <c>500 ppm</c>; a bare number is refused as ambiguous.</summary>
+    /// <exception cref="FormatException">When the text is not a positive percentage or ppm value.</exception>
+    public static double ParseFraction(string text) => RelativeParser.ParsePositiveFraction(text, "Tolerance");
 }
 
 /// <summary>One check of a result against its golden copy.</summary>

@@ -13,8 +13,9 @@ internal static class ReportHtml
     /// <summary>The coverage factor the per-range table states resistance uncertainties with.</summary>
     public const double TableCoverageFactor = 2;
 
-    /// <summary>The report's HTML text.</summary>
-    public static string Build(RunRecords run, IReadOnlyList<RenderedPlot> plots, DateTimeOffset generatedAt, string software)
+    /// <summary>The report's HTML text; without <paramref name="showPaths"/> files are named without their folders and the run directory is
+    /// left out, so that the same run gives the same report wherever it was written.</summary>
+    public static string Build(RunRecords run, IReadOnlyList<RenderedPlot> plots, DateTimeOffset generatedAt, string software, bool showPaths = true)
     {
         ArgumentNullException.ThrowIfNull(run);
         ArgumentNullException.ThrowIfNull(plots);
@@ -28,7 +29,7 @@ internal static class ReportHtml
         html.Append("<main>\n");
         Outcome(html, run);
         Uut(html, run);
-        Bench(html, run);
+        Bench(html, run, showPaths);
         Safety(html, run);
         Ranges(html, run.Result);
         Models(html, run.Result);
@@ -41,7 +42,7 @@ internal static class ReportHtml
         RunLog(html, run);
         html.Append("</main>\n<footer>Generated ")
             .Append(E(generatedAt.ToUniversalTime().ToString("yyyy-MM-dd HH:mm:ss 'UTC'", CultureInfo.InvariantCulture)))
-            .Append(" by ").Append(E(software)).Append(" from the records in ").Append(E(run.Directory))
+            .Append(" by ").Append(E(software)).Append(showPaths ? $" from the records in {E(run.Directory)}" : " from the run's records")
             .Append(". Resistances are small-signal values (slope of drop against current at zero current).</footer>\n</body></html>\n");
         return html.ToString();
     }
@@ -79,10 +80,10 @@ internal static class ReportHtml
             return;
         }
 
-        var how = end.Field("end") ?? "?";
+        var how = RunEndWords.Describe(end.Field("end"));
         var off = end.Field("outputsConfirmedOff") == "true" ? "Outputs were confirmed off at the end." : "The outputs were NOT confirmed off at the end: check the bench before touching it.";
-        var css = how == "Completed" ? "banner" : "banner stop";
-        html.Append(CultureInfo.InvariantCulture, $"<div class=\"{css}\" id=\"outcome\"><strong>Run ended: {E(how)}</strong> — {E(end.Field("message"))} ({E(end.Field("stepsDone"))} steps done). {E(off)}</div>\n");
+        var css = end.Field("end") == "Completed" ? "banner" : "banner stop";
+        html.Append(CultureInfo.InvariantCulture, $"<div class=\"{css}\" id=\"outcome\"><strong>Run ended: {E(how)}</strong> — {E(end.Field("message"))} ({E(end.Field("stepsDone"))} of {E(run.Events.FirstOrDefault(e => e.Name is "run-start" or "run-resume")?.Field("steps") ?? "?")} plan steps done). {E(off)}</div>\n");
     }
 
     private static void Uut(StringBuilder html, RunRecords run)
@@ -118,8 +119,9 @@ internal static class ReportHtml
         html.Append("</section>\n");
     }
 
-    private static void Bench(StringBuilder html, RunRecords run)
+    private static void Bench(StringBuilder html, RunRecords run, bool showPaths)
     {
+        string FileName(string path) => showPaths ? path : Path.GetFileName(path);
         html.Append("<section id=\"bench\"><h2>Bench and instruments</h2>");
         var m = run.Manifest;
         if (m is null)
@@ -131,8 +133,8 @@ internal static class ReportHtml
         Facts(html,
         [
             ("Bench", E(m.BenchName) + (m.Simulated ? " <span class=\"tag near\">simulated</span>" : string.Empty)),
-            ("Bench file", $"{E(m.BenchFile)}<br><span class=\"muted\">SHA-256 {E(m.BenchSha256)}</span>"),
-            ("Sequence file", $"{E(m.SequenceFile)}<br><span class=\"muted\">SHA-256 {E(m.SequenceSha256)}</span>"),
+            ("Bench file", $"{E(FileName(m.BenchFile))}<br><span class=\"muted\">SHA-256 {E(m.BenchSha256)}</span>"),
+            ("Sequence file", $"{E(FileName(m.SequenceFile))}<br><span class=\"muted\">SHA-256 {E(m.SequenceSha256)}</span>"),
             ("Started", E(m.Start.ToString("yyyy-MM-dd HH:mm:ss zzz", CultureInfo.InvariantCulture))),
             ("Simulation seed", E(m.Seed.ToString(CultureInfo.InvariantCulture))),
             ("Software", E(m.Software)),
@@ -419,7 +421,7 @@ internal static class ReportHtml
 
         const int Shown = 200;
         html.Append("<section id=\"run-log\"><h2>Run log</h2>")
-            .Append(CultureInfo.InvariantCulture, $"<p class=\"note\">{run.Events.Count(e => e.Name == "step-done")} steps recorded as done; the other events follow{(notable.Count > Shown ? $" (first {Shown} of {notable.Count})" : string.Empty)}.</p>");
+            .Append(CultureInfo.InvariantCulture, $"<p class=\"note\">{run.Events.Count(e => e.Name == "step-done")} measurement and hold steps journalled (operator steps are not journalled); the other events follow{(notable.Count > Shown ? $" (first {Shown} of {notable.Count})" : string.Empty)}.</p>");
         Table(html, "data", ["elapsed", "event", "details"],
             notable.Take(Shown).Select(e => (IReadOnlyList<string>)
             [

@@ -7,9 +7,6 @@ namespace ShuntSweep.Reporting.Plots;
 /// <summary>Draws each range's resistance change over the archived runs of one UUT, with the drift limit.</summary>
 public static class HistoryPlot
 {
-    /// <summary>The default file stem of the history plot of <paramref name="serial"/>: <c>history-SERIAL</c>, safe on every file system.</summary>
-    public static string DefaultStem(string serial) => $"history-{RunPlots.Stem(serial)}";
-
     /// <summary>Writes the history plot to <paramref name="pathWithoutExtension"/>.png and .svg and returns both paths.</summary>
     public static (string Png, string Svg) Write(RunHistory history, DriftLimit limit, string pathWithoutExtension)
     {

@@ -193,7 +193,8 @@ public sealed class ArchiveTests
     [InlineData("-1%")]
     [InlineData("fast")]
     [InlineData("2 V")]
-    public void DriftLimit_Parse_RejectsWhatIsNotAPercentageOrResistance(string text) =>
+    [InlineData("2")]
+    public void DriftLimit_Parse_RejectsWhatIsNotAPercentageOrResistance_AndABareNumber(string text) =>
         Assert.Throws<FormatException>(() => DriftLimit.Parse(text));
 
     /// <summary>Three runs of the demo UUT a month apart; the third has every resistance moved up by 2 %.</summary>

@@ -92,8 +92,9 @@ public sealed class ResultComparerTests : IClassFixture<ResultComparerTests.Gold
     [Theory]
     [InlineData("0.5%", 0.005)]
     [InlineData("2 %", 0.02)]
-    [InlineData("0.001", 0.001)]
-    public void Tolerance_ParsesPercentagesAndFractions(string text, double expected) =>
+    [InlineData("500 ppm", 0.0005)]
+    [InlineData("20ppm", 0.00002)]
+    public void Tolerance_ParsesPercentagesAndPartsPerMillion(string text, double expected) =>
         Assert.Equal(expected, CompareTolerance.ParseFraction(text), 1e-15);
 
     [Theory]
@@ -101,7 +102,10 @@ public sealed class ResultComparerTests : IClassFixture<ResultComparerTests.Gold
     [InlineData("0")]
     [InlineData("-1%")]
     [InlineData("one percent")]
-    public void Tolerance_RejectsWhatIsNotPositive(string text) =>
+    [InlineData("5")]
+    [InlineData("0.001")]
+    [InlineData("5 V")]
+    public void Tolerance_RejectsWhatIsNotPositive_AndABareNumberAsAmbiguous(string text) =>
         Assert.Throws<FormatException>(() => CompareTolerance.ParseFraction(text));
 
     /// <summary>The demo run's result, fitted once for the class.</summary>

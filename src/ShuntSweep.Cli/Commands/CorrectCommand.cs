@@ -15,8 +15,8 @@ internal static class CorrectCommand
     {
         var resultOpt = new Option<string>("--result") { Description = "The result.json of a characterisation.", Required = true };
         var rangeOpt = new Option<string>("--range") { Description = "The range the reading was taken on.", Required = true };
-        var readingOpt = new Option<string>("--reading") { Description = "The UUT's reading, e.g. 0.0098 or '9.8 mA'.", Required = true };
-        var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance seen by the UUT, e.g. 100 or '100 ohm'.", Required = true };
+        var readingOpt = new Option<string>("--reading") { Description = "The UUT's reading, e.g. '20.33 mA' for a status LED read on the 60mA range.", Required = true };
+        var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance seen by the UUT, e.g. '150 ohm' for the LED's series resistor.", Required = true };
         var jsonOpt = new Option<bool>("--json") { Description = "Write the correction as JSON instead of a table." };
         var command = new Command("correct", "Correct a reading taken in a circuit of known source resistance for the UUT's burden.")
         {

@@ -17,7 +17,7 @@ internal static class PlanCommand
         var command = new Command("plan", "Expand a sequence into steps, check it against the UUT and the bench, estimate its duration.") { sequenceArg, benchOpt };
         command.SetAction((parse, _) => Terminal.GuardAsync(() =>
         {
-            var sequence = SequenceReader.Load(parse.GetValue(sequenceArg)!);
+            var sequence = SequenceReader.Load(BenchHost.Bundled(parse.GetValue(sequenceArg)!, "sequence file"));
             var bench = BenchReader.Load(BenchHost.Locate(parse.GetValue(benchOpt) ?? sequence.Bench));
             var plan = Planner.Plan(sequence, bench);
             return Task.FromResult(Show(sequence, bench, plan, brief: false) ? ExitCodes.Success : ExitCodes.UnsafePlan);

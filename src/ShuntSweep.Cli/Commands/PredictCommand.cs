@@ -15,10 +15,10 @@ internal static class PredictCommand
     public static Command Create()
     {
         var resultOpt = new Option<string>("--result") { Description = "The result.json of a characterisation.", Required = true };
-        var voltsOpt = new Option<string>("--source-volts") { Description = "The circuit's Thevenin (or rail) voltage, e.g. 5 or '5 V'.", Required = true };
-        var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance (on a rail: the circuit's own V/I), e.g. 100 or '4.7 kohm'.", Required = true };
+        var voltsOpt = new Option<string>("--source-volts") { Description = "The circuit's Thevenin (or rail) voltage, e.g. '3.3 V' for a sensor node's rail.", Required = true };
+        var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance (on a rail: the circuit's own V/I), e.g. '39 ohm' for a radio drawing 85 mA from 3.3 V.", Required = true };
         var rangeOpt = new Option<string?>("--range") { Description = "Examine only this range (default: every range)." };
-        var minOpt = new Option<string?>("--min-volts") { Description = "The circuit's minimum operating voltage; ranges that leave less are flagged." };
+        var minOpt = new Option<string?>("--min-volts") { Description = "The circuit's minimum operating voltage, e.g. '3.0 V' where the radio browns out; ranges that leave less are flagged." };
         var jsonOpt = new Option<bool>("--json") { Description = "Write the prediction as JSON instead of a table." };
         var command = new Command("predict", "Predict the current, reading, error and voltage left with the UUT inserted in a circuit, per range; recommend a range.")
         {

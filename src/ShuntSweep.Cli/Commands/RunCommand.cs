@@ -80,6 +80,7 @@ internal static class RunCommand
             return Terminal.Fail("Give a sequence file, or --resume DIR.", ExitCodes.InvalidInput);
         }
 
+        sequencePath = BenchHost.Bundled(sequencePath, "sequence file");
         var sequence = SequenceReader.Load(sequencePath);
         benchPath ??= sequence.Bench;
         var benchFile = BenchHost.Locate(benchPath);

@@ -44,9 +44,14 @@ internal static class SimCommand
             Description = "Allow a non-loopback --host. The simulator has no authentication: anyone who can reach the port can drive it.",
         };
 
+        var writeBench = new Option<string?>("--write-bench")
+        {
+            Description = "Also write a bench file that drives the served instruments over TCP (the bench without its simulation section), for run, plan and probe.",
+        };
+
         var serve = new Command("serve", "Serve the instruments of a simulated bench, one TCP port each, until Ctrl-C.")
         {
-            bench, host, port, speed, seed, allowRemote,
+            bench, host, port, speed, seed, allowRemote, writeBench,
         };
         serve.SetAction((result, cancellationToken) => ServeAsync(
             result.GetValue(bench)?.FullName,
@@ -55,12 +60,13 @@ internal static class SimCommand
             result.GetValue(speed),
             result.GetValue(seed),
             result.GetValue(allowRemote),
+            result.GetValue(writeBench),
             cancellationToken));
 
         return new Command("sim", "Run the physics-faithful simulated bench.") { serve };
     }
 
-    private static async Task<int> ServeAsync(string? given, string hostText, int port, double speed, int seed, bool allowRemote, CancellationToken cancellationToken)
+    private static async Task<int> ServeAsync(string? given, string hostText, int port, double speed, int seed, bool allowRemote, string? writeBench, CancellationToken cancellationToken)
     {
         if (!IPAddress.TryParse(hostText, out var address))
         {
@@ -131,6 +137,12 @@ internal static class SimCommand
                 {
                     var role = description.Instruments.Values.First(i => string.Equals(i.Resource, "SIM::" + name, StringComparison.OrdinalIgnoreCase)).Role;
                     Console.WriteLine($"  {BenchReader.KeyOf(role),-10} {resource}");
+                }
+
+                if (writeBench is not null)
+                {
+                    ServedBenchFile.Write(path, tcp.Endpoints.Select(e => (e.Name, e.Resource)), writeBench);
+                    Console.WriteLine($"Bench file for these instruments: {writeBench}");
                 }
 
                 Console.WriteLine("Press Ctrl-C to stop.");

@@ -12,16 +12,19 @@ internal static class BenchHost
     public const string DefaultBench = "simulators/handheld-tarnwell-tw18.yaml";
 
     /// <summary>Finds a bench file: as given, else next to the executable (for the bundled simulated benches).</summary>
-    public static string Locate(string? path)
+    public static string Locate(string? path) => Bundled(path ?? DefaultBench, "bench file");
+
+    /// <summary>Finds a sequence or bench file: as given, else next to the executable, where the bundled <c>sequences/</c> and
+    /// <c>simulators/</c> travel, so that <c>shuntsweep run sequences/demo-handheld.yaml</c> works from any folder.</summary>
+    public static string Bundled(string wanted, string what = "file")
     {
-        var wanted = path ?? DefaultBench;
         if (File.Exists(wanted))
         {
             return wanted;
         }
 
         var bundled = Path.Combine(AppContext.BaseDirectory, wanted);
-        return File.Exists(bundled) ? bundled : throw new FileNotFoundException($"The bench file '{wanted}' does not exist.", wanted);
+        return File.Exists(bundled) ? bundled : throw new FileNotFoundException($"The {what} '{wanted}' does not exist.", wanted);
     }
 
     /// <summary>The clock a bench runs on: virtual for a fully simulated bench, the system clock otherwise.</summary>

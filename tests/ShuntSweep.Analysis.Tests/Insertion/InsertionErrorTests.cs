@@ -22,6 +22,20 @@ public sealed class InsertionErrorTests
     }
 
     [Fact]
+    public void DocsWorkedExample_LedBranchOnThe60mARange_ReadsLow_AndCorrectGivesTheUndisturbedCurrent()
+    {
+        // The worked example of docs/analysis.md (invented scenario: a BW-9 node's LED branch, 3.3 V through 150 Ω, on a 12.30 Ω range);
+        // the check is Ohm's law, I = V/(R_source + R_meter) and I₀ = I + I·R_meter/R_source.
+        var result = Ohmic(("60mA", 12.30, 0.06));
+        var p = Assert.Single(InsertionError.Predict(result, 3.3, 150.0).Ranges);
+        Assert.Equal(0.022, InsertionError.Predict(result, 3.3, 150.0).UndisturbedCurrentA, 12);
+        Assert.Equal(3.3 / 162.3, p.CurrentA.Value, 9);
+        Assert.Equal(0.02033, p.ReadingA, 5);
+        Assert.Equal(-0.076, p.RelativeError, 3);
+        Assert.Equal(0.022, InsertionError.Correct(result, "60mA", 3.3 / 162.3, 150.0).UndisturbedCurrentA.Value, 9);
+    }
+
+    [Fact]
     public void Predict_FiveVoltRailDropping0Point3V_LeavesBelowLogicMinimum_AndIsFlagged()
     {
         // Common practice, no source: a 5 V rail feeding a logic circuit through a meter that drops 0.3 V leaves 4.7 V,

@@ -21,6 +21,9 @@ internal static class ExitCodes
     /// <summary>An instrument failed or did not answer; outputs were turned off where possible.</summary>
     public const int InstrumentFailure = 5;
 
+    /// <summary>The run completed but its report or archive entry could not be written; the journal and result are safe in the run directory.</summary>
+    public const int RecordFailed = 6;
+
     /// <summary>The run was interrupted (Ctrl-C or SIGTERM); outputs were turned off and the run can be resumed.</summary>
     public const int Interrupted = 130;
 }

@@ -76,7 +76,8 @@ public static class BenchConnector
             Driver<IReferenceAmmeter>(InstrumentRole.Reference),
             connected.Values.Select(c => c.Connection).ToList(),
             connected.Values.Select(c => c.Info).OrderBy(i => i.Role).ToList(),
-            Driver<IVoltmeter>(InstrumentRole.ShuntTap));
+            Driver<IVoltmeter>(InstrumentRole.ShuntTap),
+            context.IoTime);
     }
 
     /// <summary>Opens a message session to <paramref name="address"/> with <paramref name="settings"/> (also used by <c>shuntsweep probe</c>).</summary>

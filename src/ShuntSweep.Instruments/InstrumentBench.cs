@@ -14,10 +14,14 @@ public sealed class InstrumentBench(
     IReferenceAmmeter? reference,
     IReadOnlyList<IAsyncDisposable> connections,
     IReadOnlyList<ConnectedInstrument>? instruments = null,
-    IVoltmeter? shuntTap = null) : IAsyncDisposable
+    IVoltmeter? shuntTap = null,
+    TimeProvider? ioTime = null) : IAsyncDisposable
 {
     /// <summary>The clock of the bench (virtual for an in-process simulation).</summary>
     public IBenchClock Clock { get; } = clock;
+
+    /// <summary>The time source of I/O deadlines: the wall clock, also when the bench itself runs on virtual time, because instruments answer in real time.</summary>
+    public TimeProvider IoTime { get; } = ioTime ?? TimeProvider.System;
 
     /// <summary>The supply.</summary>
     public ISupply Supply { get; } = supply;

@@ -81,6 +81,11 @@ public sealed class SimulatedBench : IAsyncDisposable
     {
         ArgumentNullException.ThrowIfNull(stream);
         var instrument = Find(name);
+        if (instrument.IsUnplugged)
+        {
+            return; // Off the network: the connection is accepted by the host's socket and closed at once.
+        }
+
         using var linked = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken, _stop.Token);
         await using var session = new ScpiSession(instrument, stream, linked.Token);
         await session.RunAsync(stream);

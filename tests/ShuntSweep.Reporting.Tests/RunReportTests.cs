@@ -119,7 +119,7 @@ public sealed class RunReportTests
         using var run = DemoRun.Create();
         File.AppendAllText(Path.Combine(run.Directory, "events.jsonl"), "{\"time\":\"2026-03-14T09:10:00Z\",\"event\":\"fau");
         var html = File.ReadAllText(RunReport.Write(run.Directory));
-        Assert.Contains("Run ended: completed", html, StringComparison.Ordinal);
+        Assert.Contains("Run completed", html, StringComparison.Ordinal);
         Assert.DoesNotContain("fau<", html, StringComparison.Ordinal);
     }
 

@@ -53,6 +53,10 @@ internal static class PlanCommand
         }
 
         AnsiConsole.MarkupLineInterpolated($"{plan.Steps.Count} steps, {plan.SampleCount} samples, estimated {plan.EstimatedDuration.TotalSeconds:0.#} s on the bench.");
+        if (plan.IsSafe)
+        {
+            ShowProtection(sequence, bench, plan);
+        }
         foreach (var v in plan.Violations)
         {
             Terminal.Error.MarkupLineInterpolated($"[red]unsafe:[/] {sequence.File}:{v.Line}: plan step {v.Step}: {v.Message}");
@@ -64,5 +68,16 @@ internal static class PlanCommand
         }
 
         return plan.IsSafe;
+    }
+
+    /// <summary>Prints the supply limits the run sets: the over-voltage level and, per jack, the current limit and what it derives from.</summary>
+    private static void ShowProtection(Sequence sequence, BenchDescription bench, RunPlan plan)
+    {
+        AnsiConsole.MarkupLineInterpolated($"Supply protection: over-voltage {SupplyProtection.OverVoltage(bench)} (where the supply's profile can set it).");
+        foreach (var p in SupplyProtection.ForJacks(plan, sequence, bench))
+        {
+            AnsiConsole.MarkupLineInterpolated(
+                $"  {p.Jack} jack: current limit {p.CurrentLimit} (largest planned {p.LargestPlanned} + {SupplyProtection.Margin:P0}, at most {p.Derating:P0} of its {p.FuseRating} fuse and the bench's {bench.Supply.CurrentLimit}).");
+        }
     }
 }

@@ -31,6 +31,7 @@ internal static class RunCommand
         var answersOpt = new Option<string?>("--answers") { Description = "Answers to operator prompts for unattended runs (prompt id: done|abort, otherwise: done|abort)." };
         var resumeOpt = new Option<string?>("--resume") { Description = "Continue the interrupted run in this directory after its last completed step." };
         var archiveOpt = new Option<string?>("--archive") { Description = $"Where the run is archived: an SQLite file, or a PostgreSQL connection string (default: ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath})." };
+        var yesOpt = new Option<bool>("--yes") { Description = "Confirm turning the outputs on at a real bench without asking (unattended runs); recorded in the journal." };
         var noArchiveOpt = new Option<bool>("--no-archive") { Description = "Do not record the run in the archive." };
         var jsonOpt = new Option<string?>("--json") { Description = "Also write a JSON summary of the run to this file; '-' writes it to standard output instead of the tables." };
         var junitOpt = new Option<string?>("--junit") { Description = "Also write the run's checks (completed, outputs off, each range's conformity) as JUnit XML to this file." };
@@ -40,15 +41,15 @@ internal static class RunCommand
         };
         var command = new Command("run", "Run a sequence on a bench, journal every sample, then fit and report.")
         {
-            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt, noArchiveOpt, jsonOpt, junitOpt, reproducibleOpt,
+            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt, yesOpt, noArchiveOpt, jsonOpt, junitOpt, reproducibleOpt,
         };
         command.SetAction((parse, ct) => Terminal.GuardAsync(() => ExecuteAsync(
-            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt),
+            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt), parse.GetValue(yesOpt),
             new RunOutputOptions(parse.GetValue(noArchiveOpt), parse.GetValue(jsonOpt), parse.GetValue(junitOpt), parse.GetValue(reproducibleOpt)), ct)));
         return command;
     }
 
-    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, RunOutputOptions outputs, CancellationToken ct)
+    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, CancellationToken ct)
     {
         if (outputs.Json == "-")
         {
@@ -56,22 +57,65 @@ internal static class RunCommand
             Terminal.Configure(quiet: true);
         }
 
+        if (resume is not null && !File.Exists(Path.Combine(resume, RunManifest.FileName)))
+        {
+            return Terminal.Fail($"{resume} holds no run to resume (no {RunManifest.FileName}).", ExitCodes.InvalidInput);
+        }
+
+        outDir = resume ?? outDir ?? Path.Combine("runs", TimeProvider.System.GetUtcNow().ToString("yyyyMMdd'T'HHmmss'Z'", CultureInfo.InvariantCulture));
+        if (resume is null && File.Exists(Path.Combine(outDir, RunJournal.JournalFile)))
+        {
+            return Terminal.Fail($"{outDir} already holds a run; choose another --out or --resume it.", ExitCodes.InvalidInput);
+        }
+
+        // One writer per run directory, taken before anything in it is read or written.
+        RunDirectoryLock directoryLock;
+        try
+        {
+            directoryLock = RunDirectoryLock.Acquire(outDir);
+        }
+        catch (RunDirectoryBusyException ex)
+        {
+            return Terminal.Fail(ex.Message, ExitCodes.InvalidInput);
+        }
+
+        using (directoryLock)
+        {
+            if (directoryLock.TakenOverFrom is { } stale)
+            {
+                Terminal.Note("note", $"process {stale} had ended without releasing {outDir}; its lock was taken over.");
+            }
+
+            return await PrepareAsync(sequencePath, benchPath, outDir, seed, answers, resume, archive, yes, outputs, ct);
+        }
+    }
+
+    private static async Task<int> PrepareAsync(string? sequencePath, string? benchPath, string outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, CancellationToken ct)
+    {
         RunManifest? previous = null;
         if (resume is not null)
         {
-            if (!File.Exists(Path.Combine(resume, RunManifest.FileName)))
-            {
-                return Terminal.Fail($"{resume} holds no run to resume (no {RunManifest.FileName}).", ExitCodes.InvalidInput);
-            }
 
             previous = RunManifest.Read(resume);
             sequencePath ??= previous.SequenceFile;
             benchPath ??= previous.BenchFile;
             seed = previous.Seed;
-            outDir = resume;
             if (RunManifest.HashFile(sequencePath) != previous.SequenceSha256 || RunManifest.HashFile(BenchHost.Locate(benchPath)) != previous.BenchSha256)
             {
                 return Terminal.Fail($"The sequence or bench file changed since the run in {resume} started; resume refused (start a new run instead).", ExitCodes.InvalidInput);
+            }
+
+            if (EventLog.LastRunEnd(resume) == nameof(RunEnd.Completed))
+            {
+                return Terminal.Fail($"The run in {resume} completed; there is nothing to resume and no output was touched. Start a new run to measure again.", ExitCodes.InvalidInput);
+            }
+
+            // Continue the way the run was started, unless told otherwise now.
+            if (LaunchRecord.Read(resume) is { } launched)
+            {
+                answers ??= launched.Answers;
+                yes |= launched.AssumeYes;
+                archive ??= launched.Archive;
             }
         }
 
@@ -97,19 +141,37 @@ internal static class RunCommand
             {
                 Terminal.Note("caution", note);
             }
+
+            // A real bench needs someone (or something) to answer: refuse now, before anything is connected or switched.
+            if (answers is null && !Terminal.CanAsk)
+            {
+                var ids = plan.Steps.OfType<PromptStep>().Select(p => p.Id).Distinct().ToList();
+                if (ids.Count > 0 || !yes)
+                {
+                    return Terminal.Fail(
+                        $"There is no terminal to answer prompts at. For an unattended run give --answers FILE (a YAML mapping of prompt id to done or abort; this plan asks {(ids.Count > 0 ? string.Join(", ", ids) : "nothing")}) and --yes to confirm turning the outputs on. Nothing was touched.",
+                        ExitCodes.InvalidInput);
+                }
+            }
         }
 
         var clock = BenchHost.ClockFor(bench);
         var start = previous?.Start ?? clock.Now();
-        outDir ??= Path.Combine("runs", TimeProvider.System.GetUtcNow().ToString("yyyyMMdd'T'HHmmss'Z'", CultureInfo.InvariantCulture));
-        if (resume is null && File.Exists(Path.Combine(outDir, RunJournal.JournalFile)))
-        {
-            return Terminal.Fail($"{outDir} already holds a run; choose another --out or --resume it.", ExitCodes.InvalidInput);
-        }
+        var downtime = resume is not null && !bench.IsSimulated && EventLog.LastTime(resume) is { } last ? TimeProvider.System.GetUtcNow() - last : (TimeSpan?)null;
+        return await RunLockedAsync(sequence, sequencePath, bench, benchPath, benchFile, plan, clock, start, outDir, seed, answers, resume, archive, yes, outputs, previous, downtime, ct);
+    }
 
-        Directory.CreateDirectory(outDir);
+    private static async Task<int> RunLockedAsync(
+        Sequence sequence, string sequencePath, BenchDescription bench, string? benchPath, string benchFile, RunPlan plan, IBenchClock clock, DateTimeOffset start,
+        string outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, RunManifest? previous, TimeSpan? downtime, CancellationToken ct)
+    {
         using var traffic = new LoggerConfiguration().WriteTo.File(new CompactJsonFormatter(), Path.Combine(outDir, "traffic.jsonl")).CreateLogger();
-        IOperator op = answers is not null ? AnswerFileOperator.Load(answers) : bench.IsSimulated ? new SimulatedOperator() : new ConsoleOperator();
+        await using var display = new RunDisplay(sequence.Title, plan.Steps.Count);
+        IOperator op = answers is not null ? AnswerFileOperator.Load(answers) : bench.IsSimulated ? new SimulatedOperator() : new ConsoleOperator(display);
+        if (yes)
+        {
+            op = new AssumeYesOperator(op);
+        }
 
         var wall = System.Diagnostics.Stopwatch.StartNew();
         await using var instruments = await BenchHost.ConnectAsync(bench, clock, seed, traffic, ct);
@@ -140,15 +202,16 @@ internal static class RunCommand
                 start,
                 seed,
                 bench.IsSimulated).Write(outDir);
+            new LaunchRecord(answers is null ? null : Path.GetFullPath(answers), yes, archive).Write(outDir);
         }
 
         var resumeAt = 0;
         RunJournal journal;
-        if (resume is not null && EventLog.LastStepDone(resume) is { } last)
+        if (resume is not null && EventLog.LastStepDone(resume) is { } lastDone)
         {
-            resumeAt = last.Step + 1;
-            journal = RunJournal.Reopen(resume, last, clock.Time, start);
-            AnsiConsole.MarkupLineInterpolated($"Resuming after step {last.Step} of {plan.Steps.Count}.");
+            resumeAt = lastDone.Step + 1;
+            journal = RunJournal.Reopen(resume, lastDone, clock.Time, start);
+            AnsiConsole.MarkupLineInterpolated($"Resuming after step {lastDone.Step} of {plan.Steps.Count}{(downtime is { } d ? $", {d.TotalSeconds:0} s after it stopped" : string.Empty)}.");
         }
         else
         {
@@ -162,77 +225,41 @@ internal static class RunCommand
         }
 
         RunOutcome outcome;
+        CharacterisationResult? result;
         using (journal)
         {
-            outcome = await AnsiConsole.Progress()
-                .AutoClear(false)
-                .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn(), new ElapsedTimeColumn())
-                .StartAsync(async context =>
-                {
-                    var task = context.AddTask(sequence.Title, maxValue: plan.Steps.Count);
-                    task.Value = resumeAt;
-                    var progress = new SynchronousProgress(p =>
-                    {
-                        task.Value = p.StepsDone;
-                        task.Description = Markup.Escape(p.Activity);
-                    });
-                    var r = new Runner(instruments, bench, sequence, plan, op, journal, start, progress);
-                    return await r.RunAsync(resumeAt, bench.IsSimulated, ct);
-                });
+            display.Report(new RunProgress(resumeAt, plan.Steps.Count, "connecting"));
+            await display.StartAsync();
+            var runner = new Runner(instruments, bench, sequence, plan, op, journal, start, display, new RunnerOptions(ConfirmBeforeOutputs: !bench.IsSimulated, Downtime: downtime));
+            outcome = await runner.RunAsync(resumeAt, bench.IsSimulated, ct);
+            await display.PauseAsync();
+
+            wall.Stop();
+            ShowOutcome(outcome, bench.IsSimulated, clock.Now() - start, wall.Elapsed);
+            result = Analyse(outDir, bench, journal);
         }
 
-        wall.Stop();
-        var colour = outcome.End == RunEnd.Completed ? "green" : "red";
-        var ended = RunEndWords.Describe(outcome.End.ToString());
-        AnsiConsole.MarkupLineInterpolated($"[{colour}]{char.ToUpperInvariant(ended[0]) + ended[1..]}[/]: {outcome.Message}");
-        if (!outcome.OutputsConfirmedOff)
-        {
-            Terminal.Fail("the outputs were NOT confirmed off — check the bench now.", ExitCodes.InstrumentFailure);
-        }
-
-        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "NOT confirmed off")}. {(bench.IsSimulated ? "Simulated" : "Bench")} time {(clock.Now() - start).TotalSeconds:0.0} s, wall time {wall.Elapsed.TotalSeconds:0.00} s.");
-
-        var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
-        var samples = JournalCsv.Read(journalPath).Samples;
-        CharacterisationResult? result = null;
-        if (samples.Count > 0)
-        {
-            result = Characteriser.Analyse(samples, bench.Uut);
-            var resultPath = Path.Combine(outDir, "result.json");
-            ResultJson.Write(result, resultPath);
-            FitCommand.ShowRanges(result);
-            AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
-        }
-
-        // The report and the archive record whatever the run got, also after an abort: the as-found record matters most then.
-        // They run after the outputs are off and must not be interrupted half-way by the Ctrl-C that ended the run.
-        // Under --reproducible every date written is the run's own start (virtual time on a simulated bench), not the wall clock.
-        var dating = outputs.Reproducible ? new VirtualTimeProvider(start) : TimeProvider.System;
-        var report = RunReport.Write(outDir, dating, showPaths: !outputs.Reproducible);
-        string? archived = null;
-        if (!outputs.NoArchive)
-        {
-            var location = ArchiveLocation.Resolve(archive);
-            await using (var store = await location.OpenAsync(cancellationToken: CancellationToken.None))
-            {
-                await store.RecordRunAsync(outDir, CancellationToken.None);
-            }
-
-            archived = location.Display;
-        }
-
-        AnsiConsole.MarkupLineInterpolated($"Report: {report}. {(archived is null ? "Not archived (--no-archive)" : $"Archived in {archived}")}.");
-
-        var exitCode = outcome.End switch
+        var code = outcome.End switch
         {
             RunEnd.Completed => ExitCodes.Success,
             RunEnd.SafetyAbort => ExitCodes.SafetyAbort,
             RunEnd.InstrumentFailure => ExitCodes.InstrumentFailure,
             _ => ExitCodes.Interrupted,
         };
+
+        // The report and the archive record whatever the run got, also after an abort: the as-found record matters most then.
+        // They run after the outputs are off and must not be interrupted half-way by the Ctrl-C that ended the run.
+        // Under --reproducible every date written is the run's own start (virtual time on a simulated bench), not the wall clock.
+        var dating = outputs.Reproducible ? new VirtualTimeProvider(start) : TimeProvider.System;
+        var (recorded, archived) = await RecordAsync(outDir, archive, result is not null, outputs, dating);
+        if (code == ExitCodes.Success && !recorded)
+        {
+            code = ExitCodes.RecordFailed;
+        }
+
         if (outputs.Json is { } json)
         {
-            RunOutputs.Summary(sequence.Title, bench, seed, outcome, exitCode, plan.Steps.Count, result, outputs.Reproducible ? null : Path.GetFullPath(outDir), outputs.Reproducible ? null : archived)
+            RunOutputs.Summary(sequence.Title, bench, seed, outcome, code, plan.Steps.Count, result, outputs.Reproducible ? null : Path.GetFullPath(outDir), outputs.Reproducible ? null : archived)
                 .Write(json);
         }
 
@@ -242,15 +269,103 @@ internal static class RunCommand
             AnsiConsole.MarkupLineInterpolated($"JUnit XML: {junit}");
         }
 
-        return exitCode;
+        return code;
+    }
+
+    /// <summary>Prints how the run ended and, in plain words, every instrument whose output could not be confirmed off.</summary>
+    private static void ShowOutcome(RunOutcome outcome, bool simulated, TimeSpan benchTime, TimeSpan wallTime)
+    {
+        var colour = outcome.End == RunEnd.Completed ? "green" : "red";
+        var ended = RunEndWords.Describe(outcome.End.ToString());
+        AnsiConsole.MarkupLineInterpolated($"[{colour}]{char.ToUpperInvariant(ended[0]) + ended[1..]}[/]: {outcome.Message}");
+        foreach (var c in outcome.Off.Where(c => !c.Confirmed))
+        {
+            Terminal.Fail($"the {c.Role} ({c.Resource}) did not confirm that its output is off: {c.Problem}. Switch it off at the instrument now, before touching the wiring.", ExitCodes.InstrumentFailure);
+        }
+
+        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "NOT confirmed off")}. {(simulated ? "Simulated" : "Bench")} time {benchTime.TotalSeconds:0.0} s, wall time {wallTime.TotalSeconds:0.00} s.");
+    }
+
+    /// <summary>Fits what was measured as far as it goes and writes <c>result.json</c>; ranges that cannot be fitted are left out and said so (on screen and in the events).</summary>
+    private static CharacterisationResult? Analyse(string outDir, BenchDescription bench, RunJournal journal)
+    {
+        var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
+        var samples = JournalCsv.Read(journalPath).Samples;
+        var notes = new List<string>();
+        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes);
+        if (result is not null)
+        {
+            var resultPath = Path.Combine(outDir, "result.json");
+            ResultJson.Write(result, resultPath);
+            FitCommand.ShowRanges(result);
+            AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
+        }
+
+        if (notes.Count > 0)
+        {
+            foreach (var n in notes)
+            {
+                Terminal.Note("analysis incomplete", n);
+            }
+
+            journal.Event("analysis-incomplete", new Dictionary<string, object?> { ["notes"] = string.Join(" ", notes) });
+        }
+
+        return result;
+    }
+
+    /// <summary>Writes the report and the archive entry; a failure is explained (what failed, where the data are, how to finish it later) and never hides how the run ended.</summary>
+    private static async Task<(bool Recorded, string? Archived)> RecordAsync(string outDir, string? archive, bool haveResult, RunOutputOptions outputs, TimeProvider dating)
+    {
+        if (!haveResult)
+        {
+            Terminal.Note("no report and no archive entry", $"nothing could be fitted. The journal is in {outDir}.");
+            return (true, null);
+        }
+
+        var ok = true;
+        try
+        {
+            var report = RunReport.Write(outDir, dating, showPaths: !outputs.Reproducible);
+            AnsiConsole.MarkupLineInterpolated($"Report: {report}.");
+        }
+        catch (Exception ex) when (ex is IOException or InvalidDataException or UnauthorizedAccessException or ArgumentException)
+        {
+            ok = false;
+            Terminal.Warn($"the report could not be written ({ex.Message}). The data are safe in {outDir}; write it later with: shuntsweep report {outDir}");
+        }
+
+        if (outputs.NoArchive)
+        {
+            AnsiConsole.MarkupLine("Not archived (--no-archive).");
+            return (ok, null);
+        }
+
+        ArchiveLocation location;
+        try
+        {
+            location = ArchiveLocation.Resolve(archive);
+        }
+        catch (ArgumentException ex)
+        {
+            Terminal.Warn($"the archive target is not usable ({ex.Message}). The data are safe in {outDir}; archive them later with: shuntsweep report {outDir} --archive WHERE");
+            return (false, null);
+        }
+
+        try
+        {
+            await using var store = await location.OpenAsync(cancellationToken: CancellationToken.None);
+            await store.RecordRunAsync(outDir, CancellationToken.None);
+            AnsiConsole.MarkupLineInterpolated($"Archived in {location.Display}.");
+            return (ok, location.Display);
+        }
+        catch (Exception ex) when (ex is System.Data.Common.DbException or IOException or InvalidOperationException or UnauthorizedAccessException or ArgumentException or InvalidDataException or System.Net.Sockets.SocketException or TimeoutException)
+        {
+            Terminal.Warn($"archiving in {location.Display} failed ({ex.Message}). The data are safe in {outDir}; archive them later with: shuntsweep report {outDir} --archive WHERE");
+            return (false, null);
+        }
     }
 
     /// <summary>What a run writes besides its run directory, and how.</summary>
     private sealed record RunOutputOptions(bool NoArchive, string? Json, string? Junit, bool Reproducible);
-
-    /// <summary>Reports progress on the caller's thread, so the bar always shows the latest step.</summary>
-    private sealed class SynchronousProgress(Action<RunProgress> report) : IProgress<RunProgress>
-    {
-        public void Report(RunProgress value) => report(value);
-    }
 }

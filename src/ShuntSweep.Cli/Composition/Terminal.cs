@@ -40,6 +40,12 @@ internal static class Terminal
     /// <summary>Writes a warning or note to standard error.</summary>
     public static void Note(string label, string message) => Error.MarkupLineInterpolated($"[yellow]{label}:[/] {message}");
 
+    /// <summary>True when a person can answer a prompt here: standard input and output are a terminal.</summary>
+    public static bool CanAsk => !Console.IsInputRedirected && AnsiConsole.Profile.Capabilities.Interactive;
+
+    /// <summary>Writes a warning to standard error: something went wrong that loses no data.</summary>
+    public static void Warn(string message) => Note("warning", message);
+
     /// <summary>Runs <paramref name="body"/>, turning bad input into exit code 2 with its position.</summary>
     public static async Task<int> GuardAsync(Func<Task<int>> body)
     {

@@ -138,14 +138,44 @@ public static class EventLog
     }
 
     /// <summary>The events of a log, leaving out a last line torn by an interrupted write.</summary>
+    /// <summary>How the last run in <paramref name="directory"/> ended (the <c>end</c> of its last <c>run-end</c> event), or null when no run has ended there.</summary>
+    public static string? LastRunEnd(string directory) =>
+        File.Exists(Path.Combine(directory, RunJournal.EventsFile)) && Read(Path.Combine(directory, RunJournal.EventsFile))
+            .LastOrDefault(e => e.GetProperty("event").GetString() == "run-end") is { ValueKind: JsonValueKind.Object } end
+            ? end.GetProperty("end").GetString()
+            : null;
+
+    /// <summary>The time of the last complete event in <paramref name="directory"/>, to tell how long a run stood before it was resumed.</summary>
+    public static DateTimeOffset? LastTime(string directory) =>
+        File.Exists(Path.Combine(directory, RunJournal.EventsFile)) && Read(Path.Combine(directory, RunJournal.EventsFile)).LastOrDefault() is { ValueKind: JsonValueKind.Object } last
+            && DateTimeOffset.TryParse(last.GetProperty("time").GetString(), System.Globalization.CultureInfo.InvariantCulture, System.Globalization.DateTimeStyles.RoundtripKind, out var t)
+            ? t
+            : null;
+
     public static IEnumerable<JsonElement> Read(string path)
     {
         var text = File.ReadAllText(path);
         var end = text.LastIndexOf('\n') + 1;
-        foreach (var line in text[..end].Split('\n', StringSplitOptions.RemoveEmptyEntries))
+        var lines = text[..end].Split('\n');
+        for (var i = 0; i < lines.Length; i++)
         {
-            using var doc = JsonDocument.Parse(line);
-            yield return doc.RootElement.Clone();
+            if (lines[i].Length == 0)
+            {
+                continue;
+            }
+
+            JsonElement element;
+            try
+            {
+                using var doc = JsonDocument.Parse(lines[i]);
+                element = doc.RootElement.Clone();
+            }
+            catch (JsonException ex)
+            {
+                throw new InvalidDataException($"{path}:{i + 1}: not a complete event record ({ex.Message}); the event log is damaged in the middle (two writers, or an edit), so the run cannot be resumed safely. Fit its journal as it is, and start a new run.", ex);
+            }
+
+            yield return element;
         }
     }
 

@@ -7,6 +7,9 @@ public interface IOperator
 {
     /// <summary>Shows the prompt and returns true when the operator has done it, false to abort the run.</summary>
     Task<bool> ConfirmAsync(PromptStep prompt, CancellationToken cancellationToken);
+
+    /// <summary>Who answers <paramref name="prompt"/>, for the journal (the operator at the terminal, an answers file, --yes).</summary>
+    string Describe(PromptStep prompt);
 }
 
 /// <summary>Answers prompts from an answers file for unattended runs; a prompt the file does not answer aborts the run.</summary>
@@ -45,6 +48,9 @@ public sealed class AnswerFileOperator(IReadOnlyDictionary<string, bool> answers
         ArgumentNullException.ThrowIfNull(prompt);
         return Task.FromResult(answers.TryGetValue(prompt.Id, out var a) ? a : otherwise ?? false);
     }
+
+    /// <inheritdoc />
+    public string Describe(PromptStep prompt) => "answers file";
 }
 
 /// <summary>The operator of a simulated bench: the simulated UUT follows the plan's wiring, so every prompt is done at once.</summary>
@@ -52,4 +58,7 @@ public sealed class SimulatedOperator : IOperator
 {
     /// <inheritdoc />
     public Task<bool> ConfirmAsync(PromptStep prompt, CancellationToken cancellationToken) => Task.FromResult(true);
+
+    /// <inheritdoc />
+    public string Describe(PromptStep prompt) => "simulated operator";
 }

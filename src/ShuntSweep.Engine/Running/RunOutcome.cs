@@ -20,8 +20,17 @@ public enum RunEnd
 /// <param name="End">How the run ended.</param>
 /// <param name="Message">The cause in the operator's words.</param>
 /// <param name="StepsDone">How many plan steps completed.</param>
-/// <param name="OutputsConfirmedOff">True when the load input and supply output were read back as off.</param>
-public sealed record RunOutcome(RunEnd End, string Message, int StepsDone, bool OutputsConfirmedOff);
+/// <param name="Off">What switching each output-bearing instrument off achieved.</param>
+public sealed record RunOutcome(RunEnd End, string Message, int StepsDone, IReadOnlyList<OffCheck> Off)
+{
+    /// <summary>True when the load input and the supply output were both read back as off.</summary>
+    public bool OutputsConfirmedOff => Off.Count > 0 && Off.All(c => c.Confirmed);
+}
+
+/// <summary>How a run is conducted beyond its plan.</summary>
+/// <param name="ConfirmBeforeOutputs">Ask the operator before outputs first turn on (a real bench).</param>
+/// <param name="Downtime">For a resumed run, how long the bench stood between the interruption and the resume; journalled with the resume.</param>
+public sealed record RunnerOptions(bool ConfirmBeforeOutputs = false, TimeSpan? Downtime = null);
 
 /// <summary>A safety condition that ends a run.</summary>
 public sealed class SafetyAbortException(string message) : Exception(message);

@@ -7,6 +7,7 @@ using ShuntSweep.Engine.Planning;
 using ShuntSweep.Engine.Sequences;
 using ShuntSweep.Instruments;
 using ShuntSweep.Instruments.Drivers;
+using ShuntSweep.Instruments.Messaging;
 
 namespace ShuntSweep.Engine.Running;
 
@@ -24,12 +25,16 @@ public sealed class Runner
     private readonly RunJournal _journal;
     private readonly IProgress<RunProgress>? _progress;
     private readonly DateTimeOffset _start;
+    private readonly RunnerOptions _options;
+    private readonly IReadOnlyList<JackProtection> _protection;
     private bool _outputsOn;
+    private bool _startConfirmed;
     private string? _range;
+    private string? _protectedJack;
     private double _nplc = double.NaN;
 
     /// <summary>Creates a runner; <paramref name="start"/> is the instant elapsed times count from.</summary>
-    public Runner(InstrumentBench bench, BenchDescription description, Sequence sequence, RunPlan plan, IOperator @operator, RunJournal journal, DateTimeOffset start, IProgress<RunProgress>? progress = null)
+    public Runner(InstrumentBench bench, BenchDescription description, Sequence sequence, RunPlan plan, IOperator @operator, RunJournal journal, DateTimeOffset start, IProgress<RunProgress>? progress = null, RunnerOptions? options = null)
     {
         ArgumentNullException.ThrowIfNull(plan);
         if (!plan.IsSafe)
@@ -45,6 +50,8 @@ public sealed class Runner
         _journal = journal;
         _start = start;
         _progress = progress;
+        _options = options ?? new RunnerOptions();
+        _protection = SupplyProtection.ForJacks(plan, sequence, description);
     }
 
     private IBenchClock Clock => _bench.Clock;
@@ -56,7 +63,13 @@ public sealed class Runner
         RunOutcome outcome;
         try
         {
-            _journal.Event(resumeAt == 0 ? "run-start" : "run-resume", new Dictionary<string, object?> { ["fromStep"] = resumeAt, ["steps"] = _plan.Steps.Count });
+            var resumeDetails = new Dictionary<string, object?> { ["fromStep"] = resumeAt, ["steps"] = _plan.Steps.Count };
+            if (resumeAt > 0 && _options.Downtime is { } downtime)
+            {
+                resumeDetails["downtimeS"] = downtime.TotalSeconds;
+            }
+
+            _journal.Event(resumeAt == 0 ? "run-start" : "run-resume", resumeDetails);
             await PrepareAsync(cancellationToken);
             foreach (var step in _plan.Steps)
             {
@@ -65,6 +78,11 @@ public sealed class Runner
                 if (!record && !replayEarlierSteps)
                 {
                     continue;
+                }
+
+                if (step.Index == resumeAt && resumeAt > 0 && !replayEarlierSteps)
+                {
+                    await ReconfirmAsync(resumeAt, cancellationToken);
                 }
 
                 _progress?.Report(new RunProgress(done, _plan.Steps.Count, Describe(step)));
@@ -81,30 +99,36 @@ public sealed class Runner
             }
 
             _progress?.Report(new RunProgress(done, _plan.Steps.Count, "done"));
-            outcome = new RunOutcome(RunEnd.Completed, $"All {_plan.Steps.Count} plan steps completed ({_plan.Steps.Count(s => s is MeasureStep or HoldStep)} measurement and hold steps journalled, {_plan.Steps.Count(s => s is not (MeasureStep or HoldStep))} operator and ramp steps).", done, false);
+            outcome = new RunOutcome(RunEnd.Completed, $"All {_plan.Steps.Count} plan steps completed ({_plan.Steps.Count(s => s is MeasureStep or HoldStep)} measurement and hold steps journalled, {_plan.Steps.Count(s => s is not (MeasureStep or HoldStep))} operator and ramp steps).", done, []);
         }
         catch (SafetyAbortException ex)
         {
-            outcome = new RunOutcome(RunEnd.SafetyAbort, ex.Message, done, false);
+            outcome = new RunOutcome(RunEnd.SafetyAbort, ex.Message, done, []);
         }
         catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
         {
-            outcome = new RunOutcome(RunEnd.Interrupted, "The run was interrupted; the journal holds every completed step and can be resumed.", done, false);
+            outcome = new RunOutcome(RunEnd.Interrupted, "The run was interrupted; the journal holds every completed step and can be resumed.", done, []);
         }
         catch (Exception ex) when (ex is not OutOfMemoryException)
         {
-            outcome = new RunOutcome(RunEnd.InstrumentFailure, $"Instrument failure: {ex.Message}", done, false);
+            outcome = new RunOutcome(RunEnd.InstrumentFailure, $"Instrument failure: {ex.Message}", done, []);
             _journal.Event("failure", new Dictionary<string, object?> { ["type"] = ex.GetType().FullName, ["detail"] = ex.ToString() });
         }
 
-        var confirmed = await SafeOffAsync();
-        outcome = outcome with { OutputsConfirmedOff = confirmed };
+        var off = await SafeOffAsync();
+        outcome = outcome with { Off = off };
+        if (!outcome.OutputsConfirmedOff && outcome.End != RunEnd.InstrumentFailure)
+        {
+            // An output that may still be on outweighs how the run ended otherwise.
+            outcome = outcome with { End = RunEnd.InstrumentFailure, Message = $"{outcome.Message} Then switching the outputs off could not be confirmed." };
+        }
+
         _journal.Event("run-end", new Dictionary<string, object?>
         {
             ["end"] = outcome.End.ToString(),
             ["message"] = outcome.Message,
             ["stepsDone"] = outcome.StepsDone,
-            ["outputsConfirmedOff"] = confirmed,
+            ["outputsConfirmedOff"] = outcome.OutputsConfirmedOff,
         });
         return outcome;
     }
@@ -113,8 +137,76 @@ public sealed class Runner
     {
         await _bench.Load.SetInputAsync(false, ct);
         await _bench.Supply.SetOutputAsync(false, ct);
-        await _bench.Supply.ConfigureAsync(_description.Supply.Voltage, _description.Supply.CurrentLimit, ct);
+        var first = _protection.Count > 0 ? _protection[0].CurrentLimit : _description.Supply.CurrentLimit;
+        await _bench.Supply.ConfigureAsync(_description.Supply.Voltage, first, ct);
+        var overVoltage = SupplyProtection.OverVoltage(_description);
+        var hasOverVoltage = await _bench.Supply.SetOverVoltageProtectionAsync(overVoltage, ct);
+        _journal.Event("over-voltage-protection", new Dictionary<string, object?> { ["levelV"] = hasOverVoltage ? overVoltage.Volts : null, ["set"] = hasOverVoltage });
         await _bench.Load.SetConstantCurrentAsync(Current.Zero, ct);
+    }
+
+    /// <summary>Sets the supply's current limit for the jack the loop now runs through, with the outputs off, and reads it back.</summary>
+    private async Task ProtectJackAsync(string jack, CancellationToken ct)
+    {
+        var protection = _protection.First(p => p.Jack == jack);
+        await _bench.Supply.SetCurrentLimitAsync(protection.CurrentLimit, ct);
+        var readBack = await _bench.Supply.ReadCurrentLimitAsync(ct);
+        if (readBack is { } actual && actual.Amperes > protection.CurrentLimit.Amperes * (1 + 1e-3) + 1e-6)
+        {
+            throw new SafetyAbortException($"The supply's current limit reads back as {actual}, above the {protection.CurrentLimit} set to protect the {jack} jack's {protection.FuseRating} fuse.");
+        }
+
+        _journal.Event("current-limit", new Dictionary<string, object?>
+        {
+            ["jack"] = jack,
+            ["limitA"] = protection.CurrentLimit.Amperes,
+            ["readBackA"] = readBack?.Amperes,
+            ["fuseA"] = protection.FuseRating.Amperes,
+            ["largestPlannedA"] = protection.LargestPlanned.Amperes,
+        });
+        _protectedJack = jack;
+    }
+
+    /// <summary>On a resumed real bench, asks again for the wiring (and range) of the step the run resumes in, since anything may have been moved meanwhile.</summary>
+    private async Task ReconfirmAsync(int resumeAt, CancellationToken ct)
+    {
+        var earlier = _plan.Steps.Take(resumeAt).OfType<PromptStep>().ToList();
+        var wiring = earlier.LastOrDefault(p => p.Jack is not null);
+        var range = earlier.LastOrDefault(p => p.Range is not null);
+        foreach (var prompt in new[] { wiring, range is not null && (wiring is null || range.Index > wiring.Index) ? range : null })
+        {
+            if (prompt is null)
+            {
+                continue;
+            }
+
+            await OutputsOffAsync(ct);
+            await AskAsync(prompt, resumed: true, ct);
+        }
+    }
+
+    /// <summary>Asks the operator and journals the question and the answer; a refusal is a safety abort.</summary>
+    private async Task AskAsync(PromptStep prompt, bool resumed, CancellationToken ct)
+    {
+        _journal.Event("prompt", new Dictionary<string, object?> { ["id"] = prompt.Id, ["text"] = prompt.Text, ["resumed"] = resumed ? true : null });
+        var yes = await _operator.ConfirmAsync(prompt, ct);
+        _journal.Event("prompt-answered", new Dictionary<string, object?> { ["id"] = prompt.Id, ["answer"] = yes ? "done" : "abort", ["by"] = _operator.Describe(prompt) });
+        if (!yes)
+        {
+            throw new SafetyAbortException($"The operator did not confirm '{prompt.Text}' (prompt {prompt.Id}).");
+        }
+    }
+
+    /// <summary>Before outputs first turn on at a real bench, shows the plan's extremes and asks to go ahead.</summary>
+    private async Task ConfirmStartAsync(CancellationToken ct)
+    {
+        var largest = _protection.MaxBy(p => p.LargestPlanned.Amperes);
+        var volts = _description.Supply.Voltage;
+        var text = largest is null
+            ? $"Outputs turn on now: supply {volts}."
+            : $"Outputs turn on now: up to {largest.LargestPlanned} through the {largest.Jack} jack ({largest.FuseRating} fuse), supply {volts} limited to {largest.CurrentLimit}, up to {new Power(volts.Volts * largest.LargestPlanned.Amperes)} from the supply. Go ahead?";
+        await AskAsync(new PromptStep(-1, 0, StartPromptId, text, false, null, null), resumed: false, ct);
+        _startConfirmed = true;
     }
 
     /// <summary>The largest current the plan sets on <paramref name="range"/>, so that the reference ammeter can take its most sensitive range that carries it.</summary>
@@ -141,11 +233,7 @@ public sealed class Runner
 
                 if (record)
                 {
-                    _journal.Event("prompt", new Dictionary<string, object?> { ["id"] = p.Id, ["text"] = p.Text });
-                    if (!await _operator.ConfirmAsync(p, ct))
-                    {
-                        throw new SafetyAbortException($"The operator did not confirm '{p.Text}' (prompt {p.Id}).");
-                    }
+                    await AskAsync(p, resumed: false, ct);
                 }
 
                 return [];
@@ -196,6 +284,17 @@ public sealed class Runner
 
         if (!_outputsOn)
         {
+            var jack = _description.Uut.Range(range).Jack;
+            if (_protectedJack != jack)
+            {
+                await ProtectJackAsync(jack, ct);
+            }
+
+            if (_options.ConfirmBeforeOutputs && !_startConfirmed)
+            {
+                await ConfirmStartAsync(ct);
+            }
+
             await _bench.Load.SetConstantCurrentAsync(Current.Zero, ct);
             await _bench.Supply.SetOutputAsync(true, ct);
             await _bench.Load.SetInputAsync(true, ct);
@@ -405,8 +504,21 @@ public sealed class Runner
         }
 
         var at = Clock.Now();
-        await Task.WhenAll(meters.Select(m => m.ArmAsync(ct)));
-        var values = await Task.WhenAll(meters.Select(m => m.FetchAsync(ct)));
+        IReadOnlyList<double>[] values;
+        try
+        {
+            await Task.WhenAll(meters.Select(m => m.ArmAsync(ct)));
+            values = await Task.WhenAll(meters.Select(m => m.FetchAsync(ct)));
+        }
+        catch (InstrumentTimeoutException ex)
+        {
+            // One stalled reading is not yet a failed instrument: arm every meter afresh (the late answer is discarded by its session) and fetch once more.
+            _journal.Event("re-armed", new Dictionary<string, object?> { ["resource"] = ex.Resource, ["error"] = ex.Message });
+            at = Clock.Now();
+            await Task.WhenAll(meters.Select(m => m.ArmAsync(ct)));
+            values = await Task.WhenAll(meters.Select(m => m.FetchAsync(ct)));
+        }
+
         var drop = values[0][0];
         var index = 1;
         var uutValue = uut is null ? double.NaN : values[index++][0];
@@ -437,36 +549,22 @@ public sealed class Runner
         _outputsOn = false;
     }
 
-    /// <summary>Load input off, then supply output off, each confirmed by query; never throws.</summary>
-    private async Task<bool> SafeOffAsync()
+    /// <summary>Load input and supply output off at once, each with its own deadline and confirmed by query; journals each instrument that was not confirmed; never throws.</summary>
+    private async Task<IReadOnlyList<OffCheck>> SafeOffAsync()
     {
-        using var timeout = new CancellationTokenSource(TimeSpan.FromSeconds(10));
-        var confirmed = true;
-        try
+        var checks = await SafeOff.SwitchOffAsync(_bench);
+        foreach (var c in checks.Where(c => !c.Confirmed))
         {
-            await _bench.Load.SetInputAsync(false, timeout.Token);
-            confirmed &= !await _bench.Load.IsInputOnAsync(timeout.Token);
-        }
-        catch (Exception ex) when (ex is not OutOfMemoryException)
-        {
-            confirmed = false;
-            _journal.Event("safe-off-failed", new Dictionary<string, object?> { ["instrument"] = "load", ["error"] = ex.Message });
-        }
-
-        try
-        {
-            await _bench.Supply.SetOutputAsync(false, timeout.Token);
-            confirmed &= !await _bench.Supply.IsOutputOnAsync(timeout.Token);
-        }
-        catch (Exception ex) when (ex is not OutOfMemoryException)
-        {
-            confirmed = false;
-            _journal.Event("safe-off-failed", new Dictionary<string, object?> { ["instrument"] = "supply", ["error"] = ex.Message });
+            _journal.Event("safe-off-failed", new Dictionary<string, object?> { ["instrument"] = c.Role, ["resource"] = c.Resource, ["error"] = c.Problem });
         }
 
         _outputsOn = false;
-        _journal.Event("outputs-off", new Dictionary<string, object?> { ["confirmed"] = confirmed });
-        return confirmed;
+        _journal.Event("outputs-off", new Dictionary<string, object?>
+        {
+            ["confirmed"] = checks.All(c => c.Confirmed),
+            ["notConfirmed"] = checks.Where(c => !c.Confirmed).Select(c => c.Role).ToArray(),
+        });
+        return checks;
     }
 
     private static string Describe(PlanStep step) => step switch
@@ -477,6 +575,9 @@ public sealed class Runner
         PromptStep p => p.Text,
         _ => step.GetType().Name,
     };
+
+    /// <summary>The id of the confirmation asked before outputs first turn on at a real bench (answer it in an answers file, or pass --yes).</summary>
+    public const string StartPromptId = "outputs-on";
 
     private readonly record struct Reading(DateTimeOffset At, double Drop, double Uut, double Reference, double Tap);
 }

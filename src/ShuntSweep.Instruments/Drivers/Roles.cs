@@ -9,6 +9,15 @@ public interface ISupply : IInstrument
     /// <summary>Sets the output voltage and the current limit (compliance).</summary>
     Task ConfigureAsync(Voltage voltage, Current currentLimit, CancellationToken cancellationToken = default);
 
+    /// <summary>Sets the current limit alone (protecting the jack the loop runs through), checked by read-back where the instrument can be asked.</summary>
+    Task SetCurrentLimitAsync(Current limit, CancellationToken cancellationToken = default);
+
+    /// <summary>Reads the current limit in force; null when the instrument cannot be asked.</summary>
+    Task<Current?> ReadCurrentLimitAsync(CancellationToken cancellationToken = default);
+
+    /// <summary>Sets the over-voltage protection level, checked by read-back; false when the instrument has none.</summary>
+    Task<bool> SetOverVoltageProtectionAsync(Voltage level, CancellationToken cancellationToken = default);
+
     /// <summary>Turns the output on or off.</summary>
     Task SetOutputAsync(bool enabled, CancellationToken cancellationToken = default);
 

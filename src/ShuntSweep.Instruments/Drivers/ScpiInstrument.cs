@@ -95,18 +95,22 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
     /// <summary>Switches an output off without first restoring configuration, and judges success by reading the state back, so that neither a failed restore nor an old error in the queue can stop it.</summary>
     private async Task SwitchOffAsync(IReadOnlyList<string> commands, string what, Func<CancellationToken, Task<bool>>? verify, CancellationToken cancellationToken)
     {
-        if (verify is null)
-        {
-            await SendCheckedAsync(commands, what, cancellationToken);
-            return;
-        }
-
         foreach (var c in commands)
         {
-            await Session.WriteAsync(c, cancellationToken);
+            await Session.WriteUrgentAsync(c, cancellationToken);
         }
 
         var errors = await Session.DrainErrorsAsync(cancellationToken);
+        if (verify is null)
+        {
+            if (errors.Count > 0)
+            {
+                throw new InstrumentErrorException(Resource, $"{what} ({string.Join("; ", commands)})", errors);
+            }
+
+            return;
+        }
+
         if (!await verify(cancellationToken))
         {
             throw errors.Count > 0

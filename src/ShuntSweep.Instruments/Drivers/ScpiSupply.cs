@@ -28,6 +28,37 @@ internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profi
             cancellationToken);
     }
 
+    public Task SetCurrentLimitAsync(Current limit, CancellationToken cancellationToken = default) =>
+        ApplyAsync(
+            "current limit",
+            Profile.Commands("supply.setCurrentLimit", limit.Amperes),
+            $"setting the current limit to {limit}",
+            VerifyNumber("supply.queryCurrentLimit", limit.Amperes),
+            safeOff: false,
+            cancellationToken);
+
+    public async Task<Current?> ReadCurrentLimitAsync(CancellationToken cancellationToken = default) =>
+        Profile.Supports("supply.queryCurrentLimit")
+            ? new Current(Finite(await QueryNumberAsync("supply.queryCurrentLimit", null, cancellationToken), "reading the current limit"))
+            : null;
+
+    public async Task<bool> SetOverVoltageProtectionAsync(Voltage level, CancellationToken cancellationToken = default)
+    {
+        if (!Profile.Supports("supply.setOverVoltage"))
+        {
+            return false;
+        }
+
+        await ApplyAsync(
+            "over-voltage protection",
+            Profile.Commands("supply.setOverVoltage", level.Volts),
+            $"setting the over-voltage protection to {level}",
+            VerifyNumber("supply.queryOverVoltage", level.Volts),
+            safeOff: false,
+            cancellationToken);
+        return true;
+    }
+
     public Task SetOutputAsync(bool enabled, CancellationToken cancellationToken = default) =>
         ApplyAsync(
             null,

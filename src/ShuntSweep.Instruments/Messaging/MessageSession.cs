@@ -112,6 +112,40 @@ public sealed class MessageSession : IAsyncDisposable
         }
     }
 
+    /// <summary>Sends a command at once, without first waiting for answers the instrument still owes: switching an output off must not queue behind a hung exchange.</summary>
+    /// <remarks>Late answers stay owed and are discarded before the next ordinary exchange; a lost connection is still reopened first.</remarks>
+    public async ValueTask WriteUrgentAsync(string command, CancellationToken cancellationToken = default)
+    {
+        await _gate.WaitAsync(cancellationToken);
+        try
+        {
+            ObjectDisposedException.ThrowIf(_disposed, this);
+            if (_transport is null || _broken)
+            {
+                await ReopenAsync("the connection was lost", cancellationToken);
+            }
+
+            var token = Arm(Options.Timeout, cancellationToken);
+            try
+            {
+                await SendAsync(command, token);
+            }
+            catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
+            {
+                _broken = true;
+                throw new InstrumentTimeoutException(Resource, $"the command '{command}' could not be sent within {Seconds(Options.Timeout)}.", Options.Timeout);
+            }
+            finally
+            {
+                Disarm();
+            }
+        }
+        finally
+        {
+            _gate.Release();
+        }
+    }
+
     /// <summary>Sends a query and returns its answer without the terminator.</summary>
     /// <param name="query">The query, for example <c>MEAS:VOLT?</c>.</param>
     /// <param name="timeout">How long to wait for the whole answer; the session's default when null.</param>

@@ -13,7 +13,7 @@ public sealed class InstrumentProfile
     private static readonly Dictionary<string, string[]> Operations = new(StringComparer.Ordinal)
     {
         ["common"] = ["identify", "clearStatus", "nextError", "operationComplete", "afterResync"],
-        ["supply"] = ["setVoltage", "queryVoltage", "setCurrentLimit", "queryCurrentLimit", "setOutput", "queryOutput", "measureVoltage", "measureCurrent"],
+        ["supply"] = ["setVoltage", "queryVoltage", "setCurrentLimit", "queryCurrentLimit", "setOverVoltage", "queryOverVoltage", "setOutput", "queryOutput", "measureVoltage", "measureCurrent"],
         ["load"] = ["setMode", "setCurrent", "queryCurrent", "setInput", "queryInput", "measureVoltage", "measureCurrent", "queryRegulation", "regulationLostMask"],
         ["voltmeter"] = ["configure", "setNplc", "setAutoZero", "setSamples", "setTrigger", "arm", "fetch"],
         ["uut"] = ["selectRange", "setNplc", "arm", "fetch"],

@@ -82,8 +82,14 @@ internal static class ReportHtml
 
         var how = RunEndWords.Describe(end.Field("end"));
         var off = end.Field("outputsConfirmedOff") == "true" ? "Outputs were confirmed off at the end." : "The outputs were NOT confirmed off at the end: check the bench before touching it.";
-        var css = end.Field("end") == "Completed" ? "banner" : "banner stop";
-        html.Append(CultureInfo.InvariantCulture, $"<div class=\"{css}\" id=\"outcome\"><strong>Run ended: {E(how)}</strong> — {E(end.Field("message"))} ({E(end.Field("stepsDone"))} of {E(run.Events.FirstOrDefault(e => e.Name is "run-start" or "run-resume")?.Field("steps") ?? "?")} plan steps done). {E(off)}</div>\n");
+        var complete = end.Field("end") == "Completed";
+        var css = complete ? "banner" : "banner stop";
+        var headline = complete ? "Run completed" : $"Incomplete run ({how})";
+        html.Append(CultureInfo.InvariantCulture, $"<div class=\"{css}\" id=\"outcome\"><strong>{E(headline)}</strong> — {E(end.Field("message"))} ({E(end.Field("stepsDone"))} of {E(run.Events.FirstOrDefault(e => e.Name is "run-start" or "run-resume")?.Field("steps") ?? "?")} plan steps done). {E(off)}</div>\n");
+        if (run.Events.LastOrDefault(e => e.Name == "analysis-incomplete") is { } analysis)
+        {
+            html.Append("<div class=\"banner stop\" id=\"analysis-incomplete\"><strong>Analysis incomplete</strong> — ").Append(E(analysis.Field("notes"))).Append("</div>\n");
+        }
     }
 
     private static void Uut(StringBuilder html, RunRecords run)

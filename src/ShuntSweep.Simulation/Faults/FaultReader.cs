@@ -8,7 +8,7 @@ namespace ShuntSweep.Simulation.Faults;
 internal static class FaultReader
 {
     /// <summary>The fault kinds a bench file may declare.</summary>
-    public static readonly string[] Kinds = ["latency", "lateReply", "truncatedReply", "dropConnection", "garbledByte", "pushError", "reset", "fuseOpen", "loadDropout"];
+    public static readonly string[] Kinds = ["latency", "lateReply", "truncatedReply", "dropConnection", "garbledByte", "pushError", "reset", "hang", "unplug", "fuseOpen", "loadDropout"];
 
     /// <summary>The instrument names faults may watch.</summary>
     public static readonly string[] InstrumentNames = ["supply", "load", "dmm", "uut", "ref", "tap"];
@@ -63,6 +63,8 @@ internal static class FaultReader
             "garbledByte" => new GarbledByteFault(instrument!, trigger),
             "pushError" => new PushErrorFault(instrument!, trigger, map.IntOr("code", -310, -999, -100), map.StringOr("detail", null)),
             "reset" => new ResetFault(instrument!, trigger),
+            "hang" => new HangFault(instrument!, trigger),
+            "unplug" => new UnplugFault(instrument!, trigger),
             "fuseOpen" => FuseOpen(map, instrument, trigger, uut),
             _ => LoadDropout(map, instrument, trigger),
         };

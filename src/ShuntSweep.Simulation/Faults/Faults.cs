@@ -119,6 +119,32 @@ internal sealed class DropConnectionFault(string instrument, FaultTrigger trigge
     }
 }
 
+/// <summary>The instrument hangs when the N-th command arrives: the socket stays open, nothing is executed or answered any more, and its output keeps its state.</summary>
+internal sealed class HangFault(string instrument, FaultTrigger trigger) : ConnectionFault(instrument, trigger, repeats: false)
+{
+    /// <inheritdoc />
+    public override void OnCommand(FaultContext context)
+    {
+        if (Fire(context))
+        {
+            context.Hang = true;
+        }
+    }
+}
+
+/// <summary>The instrument leaves the network when the N-th command arrives: its connections close, new ones are refused, and its output keeps its state.</summary>
+internal sealed class UnplugFault(string instrument, FaultTrigger trigger) : ConnectionFault(instrument, trigger, repeats: false)
+{
+    /// <inheritdoc />
+    public override void OnCommand(FaultContext context)
+    {
+        if (Fire(context))
+        {
+            context.Unplug = true;
+        }
+    }
+}
+
 /// <summary>An error is pushed into the instrument's queue, as a device reports an internal problem.</summary>
 internal sealed class PushErrorFault(string instrument, FaultTrigger trigger, int code, string? detail) : ConnectionFault(instrument, trigger, repeats: false)
 {

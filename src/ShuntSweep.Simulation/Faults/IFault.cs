@@ -44,6 +44,12 @@ internal sealed class FaultContext(string instrument, ScpiInstrument scpi, Bench
 
     /// <summary>Set by a fault to close the connection instead of executing the command.</summary>
     public bool DropConnection { get; set; }
+
+    /// <summary>Set by a fault to stop the instrument for good: from this command on it executes nothing and answers nothing, on every connection, while its outputs stay as they were (a hung firmware).</summary>
+    public bool Hang { get; set; }
+
+    /// <summary>Set by a fault to take the instrument off the network for good: this connection closes and new ones are closed at once, while its outputs stay as they were (a pulled cable).</summary>
+    public bool Unplug { get; set; }
 }
 
 /// <summary>When a fault fires: after the watched instrument has received N command lines, or at a time after the start of the simulation.</summary>

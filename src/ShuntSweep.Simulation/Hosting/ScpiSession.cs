@@ -107,13 +107,29 @@ internal sealed class ScpiSession : IAsyncDisposable
 
     private async Task HandleAsync(string text, CancellationToken cancellationToken)
     {
+        if (_instrument.IsHung)
+        {
+            return;
+        }
+
         var context = _instrument.NextCommand();
         foreach (var fault in _instrument.Faults)
         {
             fault.OnCommand(context);
         }
 
-        if (context.DropConnection)
+        if (context.Hang)
+        {
+            _instrument.IsHung = true;
+            return;
+        }
+
+        if (context.Unplug)
+        {
+            _instrument.IsUnplugged = true;
+        }
+
+        if (context.DropConnection || _instrument.IsUnplugged)
         {
             _closed = true;
             _replies.Writer.TryComplete();
@@ -169,6 +185,12 @@ internal sealed class SimulatedInstrument(string name, ScpiInstrument scpi, IRea
 
     /// <summary>The faults that watch this instrument.</summary>
     public IReadOnlyList<IFault> Faults { get; } = faults;
+
+    /// <summary>True once a fault hung the instrument: it executes and answers nothing more, on any connection.</summary>
+    public bool IsHung { get; set; }
+
+    /// <summary>True once a fault took the instrument off the network: every connection to it is closed.</summary>
+    public bool IsUnplugged { get; set; }
 
     /// <summary>Counts a command line and gives the faults their context for it.</summary>
     public FaultContext NextCommand() => context(Interlocked.Increment(ref _commands));

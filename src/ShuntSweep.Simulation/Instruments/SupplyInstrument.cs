@@ -14,13 +14,39 @@ internal static class SupplyInstrument
     {
         var physics = circuit.Supply;
         var readback = TimeSpan.FromSeconds(physics.ReadbackTime);
+        var protection = physics.MaxVoltage * 1.1;
+        var tripped = false;
+
+        // Over-voltage protection: a setpoint above the level switches the output off and latches the trip, as a real supply's OVP does.
+        void Protect(BenchCircuit b)
+        {
+            if (b.SupplyOn && b.SupplySetpoint > protection)
+            {
+                b.SupplyOn = false;
+                tripped = true;
+            }
+        }
+
         var commands = new ScpiCommandSet()
             .Add($"[SOURce:]VOLTage{Level}", c =>
             {
                 c.Expect(1, 1);
                 var v = c.Number(0, ScpiUnit.Volt, 0, physics.MaxVoltage, 0);
-                circuit.Change(b => b.SupplySetpoint = v);
+                circuit.Change(b =>
+                {
+                    b.SupplySetpoint = v;
+                    Protect(b);
+                });
             })
+            .Add("[SOURce:]VOLTage:PROTection[:LEVel]", c =>
+            {
+                c.Expect(1, 1);
+                var v = c.Number(0, ScpiUnit.Volt, 0, physics.MaxVoltage * 1.1, physics.MaxVoltage * 1.1);
+                protection = v;
+                circuit.Change(Protect);
+            })
+            .Add("[SOURce:]VOLTage:PROTection[:LEVel]?", c => c.Reply(Limits(c, 0, physics.MaxVoltage * 1.1) ?? protection))
+            .Add("[SOURce:]VOLTage:PROTection:TRIPped?", c => c.Reply(tripped))
             .Add($"[SOURce:]VOLTage{Level}?", c => c.Reply(Limits(c, 0, physics.MaxVoltage) ?? circuit.At(b => b.SupplySetpoint)))
             .Add($"[SOURce:]CURRent{Level}", c =>
             {
@@ -33,7 +59,16 @@ internal static class SupplyInstrument
             {
                 c.Expect(1, 1);
                 var on = c.Boolean(0);
-                circuit.Change(b => b.SupplyOn = on);
+                if (on)
+                {
+                    tripped = false;
+                }
+
+                circuit.Change(b =>
+                {
+                    b.SupplyOn = on;
+                    Protect(b);
+                });
             })
             .Add("OUTPut[:STATe]?", c => c.Reply(circuit.At(b => b.SupplyOn)))
             .Add("MEASure[:SCALar]:VOLTage[:DC]?", async c =>
@@ -50,6 +85,8 @@ internal static class SupplyInstrument
                 b.SupplyOn = false;
                 b.SupplySetpoint = 0;
                 b.SupplyLimit = Math.Min(0.1, physics.MaxCurrent);
+                protection = physics.MaxVoltage * 1.1;
+                tripped = false;
             }),
             questionable: () => circuit.Present().SupplyLimited ? 2 : 0);
     }

@@ -1,0 +1,54 @@
+using ShuntSweep.Instruments;
+
+namespace ShuntSweep.Engine.Running;
+
+/// <summary>What switching one output-bearing instrument off achieved: confirmed by read-back, or the reason it was not.</summary>
+/// <param name="Role">The bench role (<c>load</c>, <c>supply</c>).</param>
+/// <param name="Resource">The instrument's resource string.</param>
+/// <param name="Confirmed">True when the instrument read back its output (input) as off.</param>
+/// <param name="Problem">Why it was not confirmed; null when it was.</param>
+public sealed record OffCheck(string Role, string Resource, bool Confirmed, string? Problem);
+
+/// <summary>Switches every output-bearing instrument off at once, each with its own deadline, so that one hung or vanished instrument never keeps another on.</summary>
+/// <remarks>Each off command is sent at once, ahead of answers a hung exchange still owes, and then confirmed by query within the same deadline.</remarks>
+public static class SafeOff
+{
+    /// <summary>The longest one instrument may take to switch off and confirm it.</summary>
+    public static readonly TimeSpan Deadline = TimeSpan.FromSeconds(4);
+
+    /// <summary>Switches the load's input and the supply's output off concurrently and reports each; never throws.</summary>
+    public static async Task<IReadOnlyList<OffCheck>> SwitchOffAsync(InstrumentBench bench)
+    {
+        ArgumentNullException.ThrowIfNull(bench);
+        var load = AttemptAsync("load", bench.Load.Resource, bench.IoTime, async ct =>
+        {
+            await bench.Load.SetInputAsync(false, ct);
+            return !await bench.Load.IsInputOnAsync(ct);
+        });
+        var supply = AttemptAsync("supply", bench.Supply.Resource, bench.IoTime, async ct =>
+        {
+            await bench.Supply.SetOutputAsync(false, ct);
+            return !await bench.Supply.IsOutputOnAsync(ct);
+        });
+        return await Task.WhenAll(load, supply);
+    }
+
+    private static async Task<OffCheck> AttemptAsync(string role, string resource, TimeProvider time, Func<CancellationToken, Task<bool>> switchOff)
+    {
+        using var deadline = new CancellationTokenSource(Deadline, time);
+        try
+        {
+            // WaitAsync bounds the attempt even where a driver does not honour the token.
+            var off = await switchOff(deadline.Token).WaitAsync(Deadline, time, CancellationToken.None);
+            return new OffCheck(role, resource, off, off ? null : "it still reports its output on");
+        }
+        catch (Exception ex) when (ex is OperationCanceledException or TimeoutException)
+        {
+            return new OffCheck(role, resource, false, $"no confirmation within {Deadline.TotalSeconds:0} s (it does not answer)");
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            return new OffCheck(role, resource, false, ex.Message);
+        }
+    }
+}

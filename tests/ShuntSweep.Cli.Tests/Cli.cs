@@ -11,6 +11,21 @@ internal static class Cli
     /// <summary>Runs archive into a database of the test run's own, never the user's.</summary>
     static Cli() => Environment.SetEnvironmentVariable("SHUNTSWEEP_ARCHIVE", Path.Combine(Testing.Some.TempDirectory(), "archive.db"));
 
+    /// <summary>Invokes the command line with <paramref name="args"/> and returns its exit code; an exception no command handled is thrown
+    /// to the caller instead of being printed as a stack trace with exit code 1.</summary>
+    public static async Task<int> RunStrictAsync(params string[] args)
+    {
+        await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
+        try
+        {
+            return await ShuntSweepCommandLine.Create().Parse(args).InvokeAsync(new System.CommandLine.InvocationConfiguration { EnableDefaultExceptionHandler = false }, TestContext.Current.CancellationToken);
+        }
+        finally
+        {
+            OneAtATime.Release();
+        }
+    }
+
     /// <summary>Invokes the command line with <paramref name="args"/> and returns its exit code.</summary>
     /// <remarks>Invocations are serialised: the console is process-wide.</remarks>
     public static async Task<int> RunAsync(params string[] args)

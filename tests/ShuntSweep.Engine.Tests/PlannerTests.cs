@@ -70,4 +70,31 @@ public sealed class PlannerTests
         var plan = Plan("  - sweep: { range: 60mA, currents: [1 mA, 2 mA], dwell: 100 ms, samples: 5, nplc: 1 }\n");
         Assert.Equal(TimeSpan.FromMilliseconds(400), plan.EstimatedDuration);
     }
+
+    [Fact]
+    public void Plan_RefusesADeratingAboveTheFuseRating_EvenWhenTheSequenceWasNotReadFromAFile()
+    {
+        // 580 mA through a 500 mA fuse is what a 150 % derating would allow: the planner refuses the derating itself.
+        var sequence = SequenceReader.Parse("sequence: t\nsteps:\n  - sweep: { range: 400mA, currents: [100 mA] }\n", "t.yaml");
+        var plan = Planner.Plan(sequence with { Limits = sequence.Limits with { FuseDerating = 1.5 } }, Some.Bench());
+        Assert.False(plan.IsSafe);
+        Assert.Contains(plan.Violations, v => v.Message.Contains("at most 100 % of the fuse rating", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Plan_RefusesMoreSamplesThanTheBound()
+    {
+        // 60 points of 100 000 samples each: 6 million journal rows, above the 5 million a plan may record.
+        var plan = Plan("  - sweep: { range: 60mA, currents: { linear: { from: 1 mA, to: 50 mA, points: 60 } }, samples: 100000, nplc: 0.02 }\n");
+        Assert.Equal(6_000_000, plan.SampleCount);
+        Assert.Contains(plan.Violations, v => v.Message.Contains("at most 5000000", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Plan_RefusesAPlannedDurationAboveTheBound()
+    {
+        // Two holds of 4 days each: 8 days, above the 7 days a plan may take.
+        var plan = Plan("  - hold: { range: 60mA, current: 10 mA, duration: 96 h, rate: 1 Hz }\n  - hold: { range: 60mA, current: 10 mA, duration: 96 h, rate: 1 Hz }\n");
+        Assert.Contains(plan.Violations, v => v.Message.Contains("at most 7 days", StringComparison.Ordinal));
+    }
 }

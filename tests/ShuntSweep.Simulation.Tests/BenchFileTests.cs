@@ -66,4 +66,22 @@ public sealed class BenchFileTests
         var ex = Assert.Throws<DocumentException>(() => Benches.FromText(text));
         Assert.Contains("no range '60 mA'", ex.Message, StringComparison.Ordinal);
     }
+
+    [Theory]
+    [InlineData("ambient: 23 °C", "ambient: -300 °C", "above absolute zero", "-300 °C")]
+    [InlineData("lineFrequency: 50 Hz", "lineFrequency: 0 Hz", "50 Hz or 60 Hz", "0 Hz")]
+    [InlineData("fuse: { coldResistance: 0.3 ohm", "fuse: { coldResistance: -0.3 ohm", "expected > 0 Ω", "-0.3 ohm")]
+    [InlineData("contacts: 5 mohm", "contacts: -5 mohm", "expected ≥ 0 Ω", "-5 mohm")]
+    [InlineData("timeConstant: 0.8 s", "timeConstant: 0 s", "expected > 0 s", "0 s")]
+    [InlineData("meltingPoint: 960 °C, preArcingI2t: 0.6", "meltingPoint: 20 °C, preArcingI2t: 0.6", "above the ambient of 23 °C", "20 °C")]
+    [InlineData("saturationCurrent: 1 nA, ideality: 1.9, series: 2 }\n      6mA", "saturationCurrent: -1 nA, ideality: 1.9, series: 2 }\n      6mA", "expected > 0 A", "-1 nA")]
+    public void ImpossibleSimulationValue_IsRefused_AtItsPosition(string original, string replacement, string expected, string at)
+    {
+        var text = File.ReadAllText(Benches.Handheld);
+        Assert.Contains(original, text, StringComparison.Ordinal);
+        text = text.Replace(original, replacement, StringComparison.Ordinal);
+        var ex = Assert.Throws<DocumentException>(() => Benches.FromText(text));
+        Assert.Contains(expected, ex.Message, StringComparison.Ordinal);
+        Assert.StartsWith(at, text.Split('\n')[ex.Line - 1][(ex.Column - 1)..], StringComparison.Ordinal);
+    }
 }

@@ -22,6 +22,14 @@ internal static class FitCommand
         command.SetAction((parse, _) => Terminal.GuardAsync(() =>
         {
             var journalPath = parse.GetValue(journalArg)!;
+            if (Directory.Exists(journalPath))
+            {
+                var inside = Path.Combine(journalPath, "journal.csv");
+                return Task.FromResult(Terminal.Fail(
+                    $"{journalPath} is a directory; expected a journal CSV file{(File.Exists(inside) ? $" (did you mean {inside}?)" : string.Empty)}.",
+                    ExitCodes.InvalidInput));
+            }
+
             var contents = JournalCsv.Read(journalPath);
             if (contents.TornTail)
             {

@@ -29,8 +29,27 @@ internal static class HistoryCommand
             var serial = parse.GetValue(serialArg)!;
             var limit = parse.GetValue(driftOpt) is { } d ? DriftLimit.Parse(d) : DriftLimit.Default;
             var location = ArchiveLocation.Resolve(parse.GetValue(archiveOpt));
-            await using var archive = await location.OpenAsync(cancellationToken: ct);
-            var history = await archive.HistoryAsync(serial, ct);
+            if (location.Kind == ArchiveKind.Sqlite && new Microsoft.Data.Sqlite.SqliteConnectionStringBuilder(location.ConnectionString).DataSource is var file
+                && file != ":memory:" && !File.Exists(file))
+            {
+                return Terminal.Fail(
+                    Directory.Exists(file)
+                        ? $"The archive {file} is a directory; give the archive's SQLite file (or a PostgreSQL connection string) with --archive."
+                        : $"There is no archive at {file} (nothing has been archived there yet); give the archive with --archive or ${ArchiveLocation.EnvironmentVariable}.",
+                    ExitCodes.InvalidInput);
+            }
+
+            RunHistory history;
+            try
+            {
+                await using var archive = await location.OpenAsync(cancellationToken: ct);
+                history = await archive.HistoryAsync(serial, ct);
+            }
+            catch (Exception ex) when (ex is System.Data.Common.DbException or IOException or UnauthorizedAccessException or InvalidOperationException)
+            {
+                return Terminal.Fail($"Cannot read the archive ({location.Display}): {ex.Message} Is it a ShuntSweep archive (an SQLite file or a PostgreSQL connection string)?", ExitCodes.InvalidInput);
+            }
+
             if (history.Runs.Count == 0)
             {
                 return Terminal.Fail($"The archive ({location.Display}) has no runs of serial '{serial}'.", ExitCodes.InvalidInput);

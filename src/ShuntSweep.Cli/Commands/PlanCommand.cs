@@ -1,8 +1,10 @@
 using System.CommandLine;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Timing;
 using ShuntSweep.Engine.Planning;
 using ShuntSweep.Engine.Sequences;
+using ShuntSweep.Simulation;
 using Spectre.Console;
 
 namespace ShuntSweep.Cli.Commands;
@@ -15,12 +17,18 @@ internal static class PlanCommand
         var sequenceArg = new Argument<string>("sequence") { Description = "The sequence file to plan." };
         var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the sequence's bench: key, else {BenchHost.DefaultBench})." };
         var command = new Command("plan", "Expand a sequence into steps, check it against the UUT and the bench, estimate its duration.") { sequenceArg, benchOpt };
-        command.SetAction((parse, _) => Terminal.GuardAsync(() =>
+        command.SetAction((parse, _) => Terminal.GuardAsync(async () =>
         {
             var sequence = SequenceReader.Load(BenchHost.Bundled(parse.GetValue(sequenceArg)!, "sequence file"));
             var bench = BenchReader.Load(BenchHost.Locate(parse.GetValue(benchOpt) ?? sequence.Bench));
+            if (bench.Instruments.Values.Any(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase)))
+            {
+                // A simulated bench's 'simulation' section is read when the bench is built: build it once, so a bad value is found now, not at 'run'.
+                await using var simulated = SimulatedBench.Create(bench, new VirtualBenchClock(new VirtualTimeProvider()), seed: 1);
+            }
+
             var plan = Planner.Plan(sequence, bench);
-            return Task.FromResult(Show(sequence, bench, plan, brief: false) ? ExitCodes.Success : ExitCodes.UnsafePlan);
+            return Show(sequence, bench, plan, brief: false) ? ExitCodes.Success : ExitCodes.UnsafePlan;
         }));
         return command;
     }

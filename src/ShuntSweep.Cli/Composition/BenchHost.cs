@@ -23,6 +23,11 @@ internal static class BenchHost
             return wanted;
         }
 
+        if (Directory.Exists(wanted))
+        {
+            throw new Core.Documents.DocumentException(wanted, 0, 0, $"this is a directory; expected a {what}.");
+        }
+
         var bundled = Path.Combine(AppContext.BaseDirectory, wanted);
         return File.Exists(bundled) ? bundled : throw new FileNotFoundException($"The {what} '{wanted}' does not exist.", wanted);
     }

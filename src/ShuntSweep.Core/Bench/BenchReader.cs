@@ -45,19 +45,19 @@ public static class BenchReader
 
         var supplyMap = doc.Mapping("supply") ?? throw doc.Error("the 'supply' settings (voltage, currentLimit, maxPower) are required.");
         var supply = new SupplySettings(
-            new Voltage(supplyMap.Quantity("voltage", SiUnit.Volt)),
-            new Current(supplyMap.Quantity("currentLimit", SiUnit.Ampere)),
-            new Power(supplyMap.QuantityOr("maxPower", SiUnit.Watt, double.PositiveInfinity)));
+            new Voltage(supplyMap.Quantity("voltage", SiUnit.Volt, Allowed.Positive(SiUnit.Volt))),
+            new Current(supplyMap.Quantity("currentLimit", SiUnit.Ampere, Allowed.Positive(SiUnit.Ampere))),
+            new Power(supplyMap.QuantityOr("maxPower", SiUnit.Watt, double.PositiveInfinity, Allowed.Positive(SiUnit.Watt))));
         supplyMap.Finish();
 
         var loadMap = doc.Mapping("load") ?? throw doc.Error("the 'load' limits (minimumVoltage, maxCurrent, maxPower) are required.");
         var load = new LoadSettings(
-            new Voltage(loadMap.Quantity("minimumVoltage", SiUnit.Volt)),
-            new Current(loadMap.Quantity("maxCurrent", SiUnit.Ampere)),
-            new Power(loadMap.QuantityOr("maxPower", SiUnit.Watt, double.PositiveInfinity)));
+            new Voltage(loadMap.Quantity("minimumVoltage", SiUnit.Volt, Allowed.NonNegative(SiUnit.Volt))),
+            new Current(loadMap.Quantity("maxCurrent", SiUnit.Ampere, Allowed.Positive(SiUnit.Ampere))),
+            new Power(loadMap.QuantityOr("maxPower", SiUnit.Watt, double.PositiveInfinity, Allowed.Positive(SiUnit.Watt))));
         loadMap.Finish();
 
-        var wiring = new Resistance(doc.QuantityOr("wiring", SiUnit.Ohm, 0));
+        var wiring = new Resistance(doc.QuantityOr("wiring", SiUnit.Ohm, 0, Allowed.NonNegative(SiUnit.Ohm)));
 
         var instruments = new Dictionary<InstrumentRole, InstrumentEntry>();
         var instrumentsMap = doc.Mapping("instruments") ?? throw doc.Error("the 'instruments' mapping (supply, load, dropMeter, uutMeter, reference) is required.");

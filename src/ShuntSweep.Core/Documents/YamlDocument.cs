@@ -7,8 +7,104 @@ namespace ShuntSweep.Core.Documents;
 /// <summary>Loads a YAML file into a strict reader whose every error names file, line and column.</summary>
 public static class YamlDocument
 {
+    /// <summary>The largest file read; a sequence of the most points a plan may hold fits in a small fraction of it.</summary>
+    /// <remarks>Checked before the file is parsed, so a runaway generated file is refused before it costs gigabytes.</remarks>
+    public const long MaxFileBytes = 4 * 1024 * 1024;
+
+    /// <summary>The deepest nesting of lists and mappings accepted.</summary>
+    public const int MaxDepth = 64;
+
     /// <summary>Loads the file at <paramref name="path"/>; its top level must be a mapping.</summary>
-    public static MappingReader Load(string path) => Parse(File.ReadAllText(path), path);
+    public static MappingReader Load(string path) => Parse(ReadText(path), path);
+
+    /// <summary>Reads the text of a file, which must be UTF-8 (a byte-order mark is allowed) and at most <see cref="MaxFileBytes"/> long.</summary>
+    /// <exception cref="DocumentException">The path is a directory, the file cannot be read, is too large, or is not UTF-8 (the position of the first bad byte is given).</exception>
+    /// <exception cref="FileNotFoundException">There is no such file.</exception>
+    public static string ReadText(string path)
+    {
+        ArgumentNullException.ThrowIfNull(path);
+        if (Directory.Exists(path))
+        {
+            throw new DocumentException(path, 0, 0, "this is a directory; expected a YAML file.");
+        }
+
+        byte[] bytes;
+        try
+        {
+            var length = new FileInfo(path).Length;
+            if (length > MaxFileBytes)
+            {
+                throw new DocumentException(path, 0, 0, $"the file is {length / (1024.0 * 1024.0):0.#} MB; files larger than {MaxFileBytes / (1024 * 1024)} MB are refused (a plan has a bounded number of points: use 'linear' or 'log' series instead of long lists).");
+            }
+
+            bytes = File.ReadAllBytes(path);
+        }
+        catch (Exception ex) when (ex is UnauthorizedAccessException or IOException and not FileNotFoundException and not DirectoryNotFoundException)
+        {
+            throw new DocumentException(path, 0, 0, $"the file cannot be read: {ex.Message}");
+        }
+
+        return DecodeUtf8(bytes, path);
+    }
+
+    /// <summary>Refuses collections nested deeper than <see cref="MaxDepth"/>, before the recursive document model is built from them.</summary>
+    /// <remarks>The event parser keeps its own stack, so this scan cannot overflow the call stack the way building a model of
+    /// <c>[[[[…</c> a hundred thousand levels deep would.</remarks>
+    private static void RefuseDeepNesting(string text, string fileName)
+    {
+        var parser = new Parser(new StringReader(text));
+        var depth = 0;
+        while (parser.MoveNext())
+        {
+            switch (parser.Current)
+            {
+                case YamlDotNet.Core.Events.SequenceStart or YamlDotNet.Core.Events.MappingStart when ++depth > MaxDepth:
+                    throw new DocumentException(fileName, (int)parser.Current.Start.Line, (int)parser.Current.Start.Column, $"lists and mappings are nested more than {MaxDepth} levels deep here; no ShuntSweep file needs more than a few.");
+                case YamlDotNet.Core.Events.SequenceEnd or YamlDotNet.Core.Events.MappingEnd:
+                    depth--;
+                    break;
+            }
+        }
+    }
+
+    /// <summary>Decodes <paramref name="bytes"/> as UTF-8 (without its byte-order mark), refusing any other encoding with the position of the first byte that is not UTF-8.</summary>
+    public static string DecodeUtf8(ReadOnlySpan<byte> bytes, string fileName)
+    {
+        if (bytes.StartsWith((ReadOnlySpan<byte>)[0xFF, 0xFE]) || bytes.StartsWith((ReadOnlySpan<byte>)[0xFE, 0xFF]))
+        {
+            throw new DocumentException(fileName, 1, 1, "the file is UTF-16 (it starts with a UTF-16 byte-order mark); save it as UTF-8.");
+        }
+
+        if (bytes.StartsWith((ReadOnlySpan<byte>)[0xEF, 0xBB, 0xBF]))
+        {
+            bytes = bytes[3..];
+        }
+
+        var line = 1;
+        var column = 1;
+        var rest = bytes;
+        while (!rest.IsEmpty)
+        {
+            if (System.Text.Rune.DecodeFromUtf8(rest, out var rune, out var consumed) != System.Buffers.OperationStatus.Done)
+            {
+                throw new DocumentException(fileName, line, column, $"byte 0x{rest[0]:X2} is not UTF-8; files must be UTF-8 (re-save it as UTF-8 in your editor).");
+            }
+
+            if (rune.Value == '\n')
+            {
+                line++;
+                column = 1;
+            }
+            else
+            {
+                column++;
+            }
+
+            rest = rest[consumed..];
+        }
+
+        return System.Text.Encoding.UTF8.GetString(bytes);
+    }
 
     /// <summary>Parses YAML text; <paramref name="fileName"/> is used in messages only.</summary>
     public static MappingReader Parse(string text, string fileName)
@@ -16,6 +112,7 @@ public static class YamlDocument
         var stream = new YamlStream();
         try
         {
+            RefuseDeepNesting(text, fileName);
             stream.Load(new StringReader(text));
         }
         catch (YamlException ex)
@@ -38,6 +135,12 @@ public static class YamlDocument
         if (stream.Documents.Count == 0)
         {
             throw new DocumentException(fileName, 0, 0, "the file is empty; expected a mapping of keys.");
+        }
+
+        if (stream.Documents.Count > 1)
+        {
+            var second = stream.Documents[1].RootNode;
+            throw new DocumentException(fileName, (int)second.Start.Line, (int)second.Start.Column, "a second YAML document starts here ('---'); a file holds exactly one document.");
         }
 
         var root = stream.Documents[0].RootNode;
@@ -93,6 +196,13 @@ public readonly struct NodeReader
         }
     }
 
+    /// <summary>The node as a quantity in <paramref name="unit"/> (SI value) that must lie in <paramref name="allowed"/>.</summary>
+    public double AsQuantity(SiUnit unit, Allowed allowed)
+    {
+        var value = AsQuantity(unit);
+        return allowed.Contains(value) ? value : throw Error($"{What}: {AsString()} is out of range; expected {allowed.Text}.");
+    }
+
     /// <summary>The node as a whole number within [<paramref name="min"/>, <paramref name="max"/>].</summary>
     public int AsInt(int min = int.MinValue, int max = int.MaxValue)
     {
@@ -129,6 +239,9 @@ public readonly struct NodeReader
         var what = What;
         return seq.Children.Select((c, i) => new NodeReader(file, c, $"{what}[{i}]")).ToList();
     }
+
+    /// <summary>The number of items when the node is a list (0 otherwise), known without reading them.</summary>
+    public int ItemCount => Node is YamlSequenceNode seq ? seq.Children.Count : 0;
 
     /// <summary>True when the node is a mapping.</summary>
     public bool IsMapping => Node is YamlMappingNode;
@@ -217,6 +330,15 @@ public sealed class MappingReader
 
     /// <summary>An optional quantity in <paramref name="unit"/>.</summary>
     public double QuantityOr(string key, SiUnit unit, double fallback) => Optional(key)?.AsQuantity(unit) ?? fallback;
+
+    /// <summary>A required quantity in <paramref name="unit"/> that must lie in <paramref name="allowed"/>.</summary>
+    public double Quantity(string key, SiUnit unit, Allowed allowed) => Required(key).AsQuantity(unit, allowed);
+
+    /// <summary>An optional quantity in <paramref name="unit"/> that must lie in <paramref name="allowed"/> when given.</summary>
+    public double QuantityOr(string key, SiUnit unit, double fallback, Allowed allowed) => Optional(key)?.AsQuantity(unit, allowed) ?? fallback;
+
+    /// <summary>An optional quantity in <paramref name="unit"/> that must lie in <paramref name="allowed"/> when given; null when absent.</summary>
+    public double? QuantityOrNull(string key, SiUnit unit, Allowed allowed) => Optional(key)?.AsQuantity(unit, allowed);
 
     /// <summary>An optional quantity in <paramref name="unit"/>, null when absent.</summary>
     public double? QuantityOrNull(string key, SiUnit unit) => Optional(key)?.AsQuantity(unit);

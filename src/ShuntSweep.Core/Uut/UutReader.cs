@@ -29,19 +29,37 @@ public static class UutReader
     public static UutDescription Read(MappingReader map)
     {
         ArgumentNullException.ThrowIfNull(map);
-        var jacks = map.Required("jacks").AsSequence().Select(n =>
+        var jacks = new List<JackSpec>();
+        foreach (var n in map.Required("jacks").AsSequence())
         {
             var j = n.AsMapping();
-            var jack = new JackSpec(j.Text("name"), new Current(j.Quantity("fuseRating", SiUnit.Ampere)), j.StringOr("category", null));
+            var nameNode = j.Required("name");
+            var jack = new JackSpec(nameNode.AsString(), new Current(j.Quantity("fuseRating", SiUnit.Ampere, Allowed.Positive(SiUnit.Ampere))), j.StringOr("category", null));
+            if (jacks.Any(other => other.Name == jack.Name))
+            {
+                throw nameNode.Error($"{nameNode.What}: a second jack named '{jack.Name}'; jack names must be unique.");
+            }
+
             j.Finish();
-            return jack;
-        }).ToList();
+            jacks.Add(jack);
+        }
+
+        if (jacks.Count == 0)
+        {
+            throw map.Required("jacks").Error("uut.jacks: at least one jack is required.");
+        }
 
         var ranges = new List<RangeSpec>();
         foreach (var n in map.Required("ranges").AsSequence())
         {
             var r = n.AsMapping();
-            var name = r.Text("name");
+            var nameNode = r.Required("name");
+            var name = nameNode.AsString();
+            if (ranges.Any(other => other.Name == name))
+            {
+                throw nameNode.Error($"{nameNode.What}: a second range named '{name}'; range names must be unique.");
+            }
+
             var jackNode = r.Required("jack");
             var jack = jackNode.AsString();
             if (jacks.All(j => j.Name != jack))
@@ -50,27 +68,22 @@ public static class UutReader
             }
 
             var fullScaleNode = r.Required("fullScale");
-            var fullScale = fullScaleNode.AsQuantity(SiUnit.Ampere);
-            if (fullScale <= 0)
-            {
-                throw fullScaleNode.Error($"range '{name}': the full scale must be above zero.");
-            }
-
-            var resolution = r.QuantityOrNull("resolution", SiUnit.Ampere);
-            var counts = r.IntOr("counts", 0, 0);
+            var fullScale = fullScaleNode.AsQuantity(SiUnit.Ampere, Allowed.Positive(SiUnit.Ampere));
+            var resolution = r.QuantityOrNull("resolution", SiUnit.Ampere, Allowed.Positive(SiUnit.Ampere));
+            var counts = r.IntOr("counts", 0, 1);
             if (resolution is null && counts == 0)
             {
                 throw r.Error($"range '{name}': give either 'resolution' (one count, e.g. 0.01 mA) or 'counts' (display counts at full scale).");
             }
 
-            var shunt = r.QuantityOrNull("nominalShunt", SiUnit.Ohm);
+            var shunt = r.QuantityOrNull("nominalShunt", SiUnit.Ohm, Allowed.NonNegative(SiUnit.Ohm));
             var accuracy = r.Mapping("accuracy");
             var spec = accuracy is null
                 ? new AccuracySpec(0, 0)
-                : new AccuracySpec(accuracy.Quantity("reading", SiUnit.None), accuracy.IntOr("counts", 0, 0));
+                : new AccuracySpec(accuracy.Quantity("reading", SiUnit.None, Allowed.Between(0, 1, SiUnit.None) with { Text = "from 0 % to 100 % of the reading" }), accuracy.IntOr("counts", 0, 0));
             accuracy?.Finish();
-            var burden = r.QuantityOrNull("burdenAtFullScale", SiUnit.Volt);
-            var overRange = r.QuantityOr("overRange", SiUnit.None, 0.1);
+            var burden = r.QuantityOrNull("burdenAtFullScale", SiUnit.Volt, Allowed.NonNegative(SiUnit.Volt));
+            var overRange = r.QuantityOr("overRange", SiUnit.None, 0.1, Allowed.Between(0, 10, SiUnit.None) with { Text = "from 0 % to 1000 % of full scale" });
             ranges.Add(new RangeSpec(
                 name,
                 jack,

@@ -22,6 +22,11 @@ public static class Planner
         var steps = new List<PlanStep>();
         var violations = new List<PlanViolation>();
         var remoteRange = bench.Instruments.ContainsKey(InstrumentRole.UutMeter);
+        if (sequence.Limits.FuseDerating is not (> 0 and <= 1))
+        {
+            violations.Add(new PlanViolation(0, 0, $"the fuse derating is {sequence.Limits.FuseDerating:P0}; it must be above 0 % and at most 100 % of the fuse rating (a fuse is never run above its rating)."));
+        }
+
         string? jack = null;
         string? range = null;
 
@@ -93,7 +98,24 @@ public static class Planner
             }
         }
 
-        return new RunPlan(steps, Estimate(steps), violations);
+        var plan = new RunPlan(steps, Estimate(steps), violations);
+        var points = steps.Count(s => s is CurrentStep);
+        if (points > PlanLimits.MaxPoints)
+        {
+            violations.Add(new PlanViolation(0, 0, $"the plan has {points} points (sweep points, holds and ramps); at most {PlanLimits.MaxPoints} are allowed. Split the sequence."));
+        }
+
+        if (plan.SampleCount > PlanLimits.MaxSamples)
+        {
+            violations.Add(new PlanViolation(0, 0, $"the plan records {plan.SampleCount} samples; at most {PlanLimits.MaxSamples} are allowed. Take fewer samples per point or sample the holds more slowly."));
+        }
+
+        if (plan.EstimatedDuration > PlanLimits.MaxDuration)
+        {
+            violations.Add(new PlanViolation(0, 0, $"the plan would take about {plan.EstimatedDuration.TotalDays:0.#} days on the bench; at most {PlanLimits.MaxDurationText} are allowed. Split the sequence."));
+        }
+
+        return plan;
     }
 
     /// <summary>The worst-case burden voltage the planner assumes for <paramref name="current"/> on <paramref name="range"/>.</summary>

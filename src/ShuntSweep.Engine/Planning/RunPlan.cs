@@ -49,11 +49,11 @@ public sealed record RunPlan(IReadOnlyList<PlanStep> Steps, TimeSpan EstimatedDu
     public bool IsSafe => Violations.Count == 0;
 
     /// <summary>The number of recorded samples the plan will produce.</summary>
-    public int SampleCount => Steps.Sum(s => s switch
+    public long SampleCount => Steps.Sum(s => s switch
     {
-        MeasureStep m => m.Settings.Samples,
+        MeasureStep m => (long)m.Settings.Samples,
         HoldStep h => HoldSamples(h),
-        _ => 0,
+        _ => 0L,
     });
 
     /// <summary>The number of samples a hold records.</summary>

@@ -1,5 +1,6 @@
 using ShuntSweep.Core.Documents;
 using ShuntSweep.Core.Quantities;
+using ShuntSweep.Engine.Planning;
 
 namespace ShuntSweep.Engine.Sequences;
 
@@ -7,7 +8,7 @@ namespace ShuntSweep.Engine.Sequences;
 public static class SequenceReader
 {
     /// <summary>Loads the sequence at <paramref name="path"/>.</summary>
-    public static Sequence Load(string path) => Parse(File.ReadAllText(path), path);
+    public static Sequence Load(string path) => Parse(YamlDocument.ReadText(path), path);
 
     /// <summary>Parses sequence text; <paramref name="fileName"/> is used in messages.</summary>
     /// <remarks>Values may name a parameter of the file's <c>parameters</c> mapping as <c>$name</c> (<c>$$</c> is a literal <c>$</c>); the parameter's
@@ -95,12 +96,13 @@ public static class SequenceReader
 
         var limitsMap = doc.Mapping("limits");
         var limits = new SafetyLimits(
-            limitsMap?.QuantityOrNull("maxDrop", SiUnit.Volt) is { } md ? new Voltage(md) : null,
-            Fraction(limitsMap, "fuseDerating", 0.8),
-            Fraction(limitsMap, "maxOfFullScale", 1.0));
+            limitsMap?.QuantityOrNull("maxDrop", SiUnit.Volt, Allowed.Positive(SiUnit.Volt)) is { } md ? new Voltage(md) : null,
+            limitsMap?.QuantityOr("fuseDerating", SiUnit.None, 0.8, Allowed.Percent(100) with { Text = "above 0 % and at most 100 % of the fuse rating (a fuse is never run above its rating)" }) ?? 0.8,
+            limitsMap?.QuantityOr("maxOfFullScale", SiUnit.None, 1.0, Allowed.Percent(200) with { Text = "above 0 % and at most 200 % of the range's full scale" }) ?? 1.0);
         limitsMap?.Finish();
 
         var items = new List<SequenceItem>();
+        var budget = new PointBudget();
         var stepsNode = doc.Required("steps");
         var steps = stepsNode.AsSequence();
         if (steps.Count == 0)
@@ -122,9 +124,9 @@ public static class SequenceReader
             var body = map.Required(present[0]);
             items.Add(present[0] switch
             {
-                "sweep" => ReadSweep(body, defaults),
-                "hold" => ReadHold(body, defaults),
-                "ramp" => ReadRamp(body),
+                "sweep" => ReadSweep(body, defaults, budget),
+                "hold" => ReadHold(body, defaults, budget),
+                "ramp" => ReadRamp(body, budget),
                 _ => ReadPrompt(body, items.Count),
             });
             map.Finish();
@@ -134,7 +136,7 @@ public static class SequenceReader
         return new Sequence(title, doc.File, limits, items) { Bench = bench };
     }
 
-    private static SweepItem ReadSweep(NodeReader node, PointSettings defaults)
+    private static SweepItem ReadSweep(NodeReader node, PointSettings defaults, PointBudget budget)
     {
         var map = node.AsMapping();
         var range = map.Text("range");
@@ -142,7 +144,7 @@ public static class SequenceReader
         var currents = new List<CurrentValue>();
         if (currentsNode.IsSequence)
         {
-            currents.AddRange(currentsNode.AsSequence().Select(ReadCurrent));
+            currents.AddRange(budget.Take(currentsNode).Select(ReadCurrent));
         }
         else
         {
@@ -159,11 +161,11 @@ public static class SequenceReader
 
             if (list is { } l)
             {
-                currents.AddRange(l.AsSequence().Select(ReadCurrent));
+                currents.AddRange(budget.Take(l).Select(ReadCurrent));
             }
             else
             {
-                currents.AddRange(Series((linear ?? log)!, log is not null));
+                currents.AddRange(Series((linear ?? log)!, log is not null, budget));
             }
 
             c.Finish();
@@ -179,12 +181,14 @@ public static class SequenceReader
         return new SweepItem(node.Line, range, currents, settings) { Column = node.Column };
     }
 
-    private static IEnumerable<CurrentValue> Series(MappingReader map, bool logarithmic)
+    private static List<CurrentValue> Series(MappingReader map, bool logarithmic, PointBudget budget)
     {
         var fromNode = map.Required("from");
         var from = ReadCurrent(fromNode);
         var to = ReadCurrent(map.Required("to"));
-        var points = map.Required("points").AsInt(2, 100_000);
+        var pointsNode = map.Required("points");
+        var points = pointsNode.AsInt(2, PlanLimits.MaxPoints);
+        budget.Take(points, pointsNode);
         map.Finish();
         if (from.IsFraction != to.IsFraction)
         {
@@ -196,44 +200,51 @@ public static class SequenceReader
             throw fromNode.Error($"{map.What}: a logarithmic series needs 'from' and 'to' above zero.");
         }
 
+        var series = new List<CurrentValue>(points);
         for (var i = 0; i < points; i++)
         {
             var t = i / (double)(points - 1);
             var v = logarithmic
                 ? Math.Exp(Math.Log(from.Value) + (t * (Math.Log(to.Value) - Math.Log(from.Value))))
                 : from.Value + (t * (to.Value - from.Value));
-            yield return new CurrentValue(v, from.IsFraction);
+            series.Add(new CurrentValue(v, from.IsFraction));
         }
+
+        return series;
     }
 
-    private static HoldItem ReadHold(NodeReader node, PointSettings defaults)
+    private static HoldItem ReadHold(NodeReader node, PointSettings defaults, PointBudget budget)
     {
         var map = node.AsMapping();
         var range = map.Text("range");
         var current = ReadCurrent(map.Required("current"));
         var durationNode = map.Required("duration");
-        var duration = TimeSpan.FromSeconds(durationNode.AsQuantity(SiUnit.Second));
+        var duration = TimeSpan.FromSeconds(durationNode.AsQuantity(SiUnit.Second, Allowed.UpTo(PlanLimits.MaxDuration.TotalSeconds, SiUnit.Second) with { Text = $"above 0 s and at most {PlanLimits.MaxDurationText}" }));
         var rateNode = map.Required("rate");
-        var rate = rateNode.AsQuantity(SiUnit.Hertz);
-        if (rate <= 0 || duration <= TimeSpan.Zero)
+        var rate = rateNode.AsQuantity(SiUnit.Hertz, Allowed.UpTo(PlanLimits.MaxHoldRateHz, SiUnit.Hertz));
+        var samples = duration.TotalSeconds * rate;
+        if (samples > PlanLimits.MaxSamples)
         {
-            throw rateNode.Error($"{map.What}: 'duration' and 'rate' must be above zero.");
+            throw rateNode.Error($"{map.What}: {durationNode.AsString()} at {rateNode.AsString()} is {samples:0} samples; a plan records at most {PlanLimits.MaxSamples} samples.");
         }
+
+        budget.Take(1, node);
 
         var settings = ReadSettings(map, defaults with { Samples = 1 });
         map.Finish();
         return new HoldItem(node.Line, range, current, duration, TimeSpan.FromSeconds(1 / rate), settings) { Column = node.Column };
     }
 
-    private static RampItem ReadRamp(NodeReader node)
+    private static RampItem ReadRamp(NodeReader node, PointBudget budget)
     {
         var map = node.AsMapping();
+        budget.Take(1, node);
         var item = new RampItem(
             node.Line,
             map.Text("range"),
             ReadCurrent(map.Required("from")),
             ReadCurrent(map.Required("to")),
-            TimeSpan.FromSeconds(map.Quantity("duration", SiUnit.Second)),
+            TimeSpan.FromSeconds(map.Quantity("duration", SiUnit.Second, Allowed.Between(0, PlanLimits.MaxDuration.TotalSeconds, SiUnit.Second) with { Text = $"from 0 s to {PlanLimits.MaxDurationText}" })),
             map.IntOr("steps", 10, 1, 10_000)) { Column = node.Column };
         map.Finish();
         return item;
@@ -259,7 +270,7 @@ public static class SequenceReader
             return fallback;
         }
 
-        var dwell = map.QuantityOrNull("dwell", SiUnit.Second);
+        var dwell = map.QuantityOrNull("dwell", SiUnit.Second, Allowed.Between(0, PlanLimits.MaxWait.TotalSeconds, SiUnit.Second) with { Text = $"from 0 s to {PlanLimits.MaxWaitText}" });
         var settling = fallback.Settling with { Dwell = dwell is null ? fallback.Settling.Dwell : TimeSpan.FromSeconds(dwell.Value) };
         if (map.Optional("settle") is { } settleNode)
         {
@@ -269,8 +280,8 @@ public static class SequenceReader
                 settling = settling with
                 {
                     AgreeCount = s.Required("agree").AsInt(2, 1000),
-                    Tolerance = s.Quantity("within", SiUnit.None),
-                    MaxWait = TimeSpan.FromSeconds(s.Quantity("maxWait", SiUnit.Second)),
+                    Tolerance = s.Quantity("within", SiUnit.None, Allowed.Percent(100) with { Text = "above 0 % and at most 100 % (the relative spread the readings agree within)" }),
+                    MaxWait = TimeSpan.FromSeconds(s.Quantity("maxWait", SiUnit.Second, Allowed.UpTo(PlanLimits.MaxWait.TotalSeconds, SiUnit.Second) with { Text = $"above 0 s and at most {PlanLimits.MaxWaitText}" })),
                 };
                 s.Finish();
             }
@@ -329,15 +340,25 @@ public static class SequenceReader
         return new CurrentValue(node.AsQuantity(SiUnit.Ampere), false);
     }
 
-    private static double Fraction(MappingReader? map, string key, double fallback)
+    /// <summary>Counts the points (sweep points, holds and ramps) read so far and refuses the file once they exceed <see cref="PlanLimits.MaxPoints"/>,
+    /// before a list is read item by item.</summary>
+    private sealed class PointBudget
     {
-        var node = map?.Optional(key);
-        if (node is null)
+        private int _taken;
+
+        public IReadOnlyList<NodeReader> Take(NodeReader list)
         {
-            return fallback;
+            Take(list.ItemCount, list);
+            return list.AsSequence();
         }
 
-        var v = node.Value.AsQuantity(SiUnit.None);
-        return v is <= 0 or > 1.5 ? throw node.Value.Error($"{node.Value.What}: expected a fraction such as 80 %, found {node.Value.AsString()}.") : v;
+        public void Take(int points, NodeReader where)
+        {
+            _taken += Math.Min(points, PlanLimits.MaxPoints + 1);
+            if (_taken > PlanLimits.MaxPoints)
+            {
+                throw where.Error($"{where.What}: the sequence now has more than {PlanLimits.MaxPoints} points (sweep points, holds and ramps); a plan holds at most {PlanLimits.MaxPoints}. Split it into several sequences.");
+            }
+        }
     }
 }

@@ -42,7 +42,7 @@ internal static class FaultReader
         }
 
         var after = map.Optional("afterCommands")?.AsInt(1);
-        var at = map.QuantityOrNull("at", SiUnit.Second);
+        var at = map.QuantityOrNull("at", SiUnit.Second, Allowed.Between(0, 365 * 86400, SiUnit.Second) with { Text = "from 0 s to 1 year after the start" });
         if (after is not null && at is not null)
         {
             throw map.Error($"{map.What}: give either 'afterCommands' or 'at', not both.");
@@ -95,5 +95,5 @@ internal static class FaultReader
     }
 
     private static TimeSpan Seconds(MappingReader map, string key, double fallback) =>
-        TimeSpan.FromSeconds(map.QuantityOr(key, SiUnit.Second, fallback));
+        TimeSpan.FromSeconds(map.QuantityOr(key, SiUnit.Second, fallback, Allowed.Between(0, 86400, SiUnit.Second) with { Text = "from 0 s to 1 day" }));
 }

@@ -25,12 +25,13 @@ internal sealed class SimulatedRun
           - sweep: { range: 10A, currents: { linear: { from: 1 A, to: 8 A, points: 8 } } }
         """;
 
-    private SimulatedRun(RunOutcome outcome, string directory, bool supplyOff, bool loadOff)
+    private SimulatedRun(RunOutcome outcome, string directory, bool supplyOff, bool loadOff, string mAFuseOpen)
     {
         Outcome = outcome;
         Directory = directory;
         SupplyOff = supplyOff;
         LoadOff = loadOff;
+        MilliampFuseOpen = mAFuseOpen == "1";
     }
 
     public RunOutcome Outcome { get; }
@@ -42,6 +43,9 @@ internal sealed class SimulatedRun
 
     /// <summary>The load's input as the simulated instrument itself reports it after the run.</summary>
     public bool LoadOff { get; }
+
+    /// <summary>Whether the simulated UUT's mA-jack fuse is open after the run.</summary>
+    public bool MilliampFuseOpen { get; }
 
     public JournalContents Journal => JournalCsv.Read(Path.Combine(Directory, RunJournal.JournalFile));
 
@@ -95,7 +99,8 @@ internal sealed class SimulatedRun
 
         var supplyOff = await AskAsync(simulator, "supply", "OUTP?") == "0";
         var loadOff = await AskAsync(simulator, "load", "INP?") == "0";
-        return new SimulatedRun(outcome, dir, supplyOff, loadOff);
+        var fuse = await AskAsync(simulator, "supply", "SIM:FUSE:OPEN? \"mA\"");
+        return new SimulatedRun(outcome, dir, supplyOff, loadOff, fuse);
     }
 
     /// <summary>Every step recorded as done has all its rows in the journal, and the journal has no rows of other steps.</summary>

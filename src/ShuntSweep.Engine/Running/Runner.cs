@@ -465,6 +465,13 @@ public sealed class Runner
             return $"Open circuit at {setpoint} on {step.Range}: the current collapsed to {current} and {new Voltage(drop)} of the supply's {supplyVolts} now stands across the UUT's jacks. The UUT's {step.Jack} fuse has probably opened; turn everything off and check it before re-wiring.";
         }
 
+        var fullScale = _description.Uut.Range(step.Range).FullScale.Amperes;
+        if (current.Amperes > (1.05 * setpoint.Amperes) + (0.01 * fullScale))
+        {
+            var limit = _protection.FirstOrDefault(p => p.Jack == step.Jack)?.CurrentLimit;
+            return $"The loop current ({current}) is above the setpoint ({setpoint}) on {step.Range}: the load does not follow its setpoint{(limit is { } l ? $", and the supply's {l} current limit is what held the current" : string.Empty)}. Check the load before using it again.";
+        }
+
         if (loadVolts < _description.Load.MinimumVoltage)
         {
             return $"The load is out of regulation at {setpoint} on {step.Range}: it has {loadVolts} across it, below its {_description.Load.MinimumVoltage} minimum (dropout); raise the supply voltage or lower the current.";

@@ -8,7 +8,7 @@ namespace ShuntSweep.Simulation.Faults;
 internal static class FaultReader
 {
     /// <summary>The fault kinds a bench file may declare.</summary>
-    public static readonly string[] Kinds = ["latency", "lateReply", "truncatedReply", "dropConnection", "garbledByte", "pushError", "reset", "hang", "unplug", "fuseOpen", "loadDropout"];
+    public static readonly string[] Kinds = ["latency", "lateReply", "truncatedReply", "dropConnection", "garbledByte", "pushError", "reset", "hang", "unplug", "fuseOpen", "loadDropout", "loadRunaway"];
 
     /// <summary>The instrument names faults may watch.</summary>
     public static readonly string[] InstrumentNames = ["supply", "load", "dmm", "uut", "ref", "tap"];
@@ -25,7 +25,7 @@ internal static class FaultReader
             throw map.Error($"{map.What}: the key 'kind' is required; one of {string.Join(", ", Kinds)}.");
         }
 
-        var physics = kind is "fuseOpen" or "loadDropout";
+        var physics = kind is "fuseOpen" or "loadDropout" or "loadRunaway";
         var instrumentNode = map.Optional("instrument");
         string? instrument = null;
         if (instrumentNode is { } node)
@@ -66,6 +66,7 @@ internal static class FaultReader
             "hang" => new HangFault(instrument!, trigger),
             "unplug" => new UnplugFault(instrument!, trigger),
             "fuseOpen" => FuseOpen(map, instrument, trigger, uut),
+            "loadRunaway" => LoadRunaway(map, instrument, trigger),
             _ => LoadDropout(map, instrument, trigger),
         };
         map.Finish();
@@ -92,6 +93,17 @@ internal static class FaultReader
     {
         var duration = Seconds(map, "duration", 1);
         return new PhysicsFault(instrument, trigger, c => c.LoadFailedUntil = c.Now + duration);
+    }
+
+    private static PhysicsFault LoadRunaway(MappingReader map, string? instrument, FaultTrigger trigger)
+    {
+        var current = map.QuantityOrNull("current", SiUnit.Ampere);
+        if (current is <= 0)
+        {
+            throw map.Error($"{map.What}: 'current' must be above 0 A.");
+        }
+
+        return new PhysicsFault(instrument, trigger, c => c.LoadRunawayCurrent = current ?? c.Load.MaxCurrent);
     }
 
     private static TimeSpan Seconds(MappingReader map, string key, double fallback) =>

@@ -72,6 +72,9 @@ internal sealed class BenchCircuit
     /// <summary>Until when an injected fault keeps the load from conducting.</summary>
     public DateTimeOffset LoadFailedUntil { get; set; } = DateTimeOffset.MinValue;
 
+    /// <summary>The current a faulty load sinks whatever its setpoint (a failed regulator), in amperes; null while it follows its setpoint.</summary>
+    public double? LoadRunawayCurrent { get; set; }
+
     /// <summary>Runs <paramref name="action"/> on the circuit brought up to the present instant (a setting change or a read).</summary>
     public T At<T>(Func<BenchCircuit, T> action)
     {
@@ -151,7 +154,7 @@ internal sealed class BenchCircuit
     {
         var vs = SupplyOn ? SupplySetpoint : 0;
         var loadConducts = LoadOn && _time >= LoadFailedUntil;
-        var iset = LoadSetpoint;
+        var iset = LoadRunawayCurrent ?? LoadSetpoint;
         if (!loadConducts || !SupplyOn || vs <= 0 || iset <= 0)
         {
             var holding = !LoadOn || iset <= 0 || (loadConducts && SupplyOn && vs > 0);

@@ -346,7 +346,7 @@ internal static class RunCommand
         {
             location = ArchiveLocation.Resolve(archive);
         }
-        catch (ArgumentException ex)
+        catch (Exception ex) when (ex is ArgumentException or FormatException)
         {
             Terminal.Warn($"the archive target is not usable ({ex.Message}). The data are safe in {outDir}; archive them later with: shuntsweep report {outDir} --archive WHERE");
             return (false, null);

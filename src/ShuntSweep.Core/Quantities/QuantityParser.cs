@@ -15,8 +15,8 @@ public static class QuantityParser
 
     private static readonly Dictionary<string, double> Prefixes = new(StringComparer.Ordinal)
     {
-        ["p"] = 1e-12, ["n"] = 1e-9, ["µ"] = 1e-6, ["μ"] = 1e-6, ["u"] = 1e-6, ["m"] = 1e-3,
-        ["k"] = 1e3, ["M"] = 1e6, ["G"] = 1e9, [""] = 1.0,
+        ["f"] = 1e-15, ["p"] = 1e-12, ["n"] = 1e-9, ["µ"] = 1e-6, ["μ"] = 1e-6, ["u"] = 1e-6, ["m"] = 1e-3,
+        ["k"] = 1e3, ["M"] = 1e6, ["G"] = 1e9, ["T"] = 1e12, [""] = 1.0,
     };
 
     /// <summary>Parses <paramref name="text"/> and returns its value in the coherent SI unit of <paramref name="expected"/>.</summary>
@@ -112,7 +112,7 @@ public static class QuantityParser
                 value = number * 1e-2;
                 return true;
             default:
-                error = $"'{text}' has an unknown unit '{suffix}'; expected an SI prefix (p n µ u m k M G) and a unit (A V Ω ohm s W Hz K °C), or ppm or %.";
+                error = $"'{text}' has an unknown unit '{suffix}'; expected an SI prefix (f p n µ u m k M G T) and a unit (A V Ω ohm s W Hz K °C), or ppm or %.";
                 return false;
         }
     }

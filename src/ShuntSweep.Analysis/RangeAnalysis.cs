@@ -191,7 +191,8 @@ internal sealed class RangeAnalysis
                 f.Aicc,
                 f.Bic,
                 nested?.Model.Name,
-                nested is null ? double.NaN : DropFitter.NestedFTest(nested, f));
+                nested is null ? double.NaN : DropFitter.NestedFTest(nested, f),
+                f.Succeeded ? f.Parameters : null);
         }).ToList();
         return new ModelComparison(
             chosen.Model.Name,

@@ -29,6 +29,7 @@ internal static class ShuntSweepCommandLine
             ReportCommand.Create(),
             HistoryCommand.Create(),
             CompareCommand.Create(),
+            OverlayCommand.Create(),
             ProbeCommand.Create(),
             SimCommand.Create(),
         };

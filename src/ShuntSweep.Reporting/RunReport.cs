@@ -13,6 +13,9 @@ public static class RunReport
     /// <summary>The folder, inside a run directory, that receives the plots.</summary>
     public const string PlotsFolder = "plots";
 
+    /// <summary>The folder, inside a run directory, that receives the points and fitted curves as CSV.</summary>
+    public const string ExportFolder = "export";
+
     /// <summary>Writes the report of the run in <paramref name="runDirectory"/> and returns the full path of <c>report.html</c>.</summary>
     /// <param name="runDirectory">A run directory holding at least <c>result.json</c>.</param>
     /// <param name="time">The clock that dates the report; the system clock when null.</param>
@@ -34,6 +37,7 @@ public static class RunReport
             File.WriteAllText(Path.Combine(plotDir, p.Name + ".svg"), p.Svg);
         }
 
+        Export.ResultCsv.Write(run.Result, Path.Combine(run.Directory, ExportFolder));
         var html = ReportHtml.Build(run, plots, (time ?? TimeProvider.System).GetUtcNow(), Software, showPaths);
         var path = Path.Combine(run.Directory, FileName);
         File.WriteAllText(path + ".tmp", html);

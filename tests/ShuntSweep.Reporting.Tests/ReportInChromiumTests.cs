@@ -67,6 +67,28 @@ public sealed class ReportInChromiumTests
     }
 
     [Fact]
+    public async Task Overlay_RendersInHeadlessChromium_WithAPlotAndATablePerRange_AndNoNetwork()
+    {
+        SkipWithoutChromium();
+        using var run = DemoRun.Create();
+        var folder = Path.Combine(run.Directory, "overlay");
+        var (page, differences) = OverlayReport.Write([new("rev A", run.Result), new("rev B", DemoRun.ScaleResistance(run.Result, 1.01))], folder);
+        await using var browser = await HeadlessChromium.StartAsync(1280, 1600);
+        await browser.NavigateAsync(new Uri(page).AbsoluteUri);
+
+        var ranges = differences.Select(d => d.Range).Distinct().Count();
+        var images = (await browser.EvaluateAsync("[...document.images].map(i => i.complete && i.naturalWidth >= 900)"))!.AsArray();
+        Assert.Equal(ranges, images.Count);
+        Assert.All(images, i => Assert.True(i!.GetValue<bool>(), "every overlay plot decodes at its full width"));
+        var tables = (await browser.EvaluateAsync("[...document.querySelectorAll('table.differences')].filter(t => t.getBoundingClientRect().height > 0).length"))!.GetValue<int>();
+        Assert.Equal(ranges, tables);
+        var enTags = (await browser.EvaluateAsync("document.querySelectorAll('table.differences .tag').length"))!.GetValue<int>();
+        Assert.True(enTags >= ranges * 3, $"an En tag per compared quantity ({enTags})");
+        Assert.All(browser.RequestedUrls, u => Assert.True(u.StartsWith("file:", StringComparison.Ordinal) || u.StartsWith("data:", StringComparison.Ordinal), $"the overlay asked for {u}"));
+        File.WriteAllBytes(Path.Combine(folder, "screenshot.png"), await browser.ScreenshotAsync());
+    }
+
+    [Fact]
     public async Task RequestRecorder_SeesAPageThatFetchesFromTheNetwork()
     {
         SkipWithoutChromium();

@@ -66,7 +66,7 @@ public sealed class RunReportTests
         using var run = DemoRun.Create();
         RunReport.Write(run.Directory);
         var plots = Path.Combine(run.Directory, "plots");
-        var expected = new List<string> { "drop-60mA", "drop-10A", "all-ranges-loglog", "insertion-error" };
+        var expected = new List<string> { "drop-60mA", "drop-10A", "drop-log-60mA", "drop-log-10A", "resistance-60mA", "resistance-10A", "all-ranges-loglog", "insertion-error" };
         expected.AddRange(run.Result.Ranges.Where(r => r.ReadingError is { Count: > 0 }).Select(r => $"reading-error-{r.Name}"));
         expected.AddRange(run.Result.Ranges.SelectMany(r => (r.Thermal ?? []).Select(h => $"thermal-{r.Name}-step{h.Step}")));
         if (run.Result.Decomposition is { Count: > 0 } d && d.Any(j => j.Separations.Count > 0))

@@ -69,6 +69,31 @@ public sealed class DropCurve
         return new DropCurve(range, model, p, c);
     }
 
+    /// <summary>The curve of another candidate model of <paramref name="range"/> (the runner-up, say) from the parameters its comparison
+    /// kept; null when the candidate was not fitted or the result predates stored candidate parameters.</summary>
+    /// <remarks>Its uncertainty is not kept: <see cref="DropUncertainty"/> of such a curve is zero.</remarks>
+    public static DropCurve? Candidate(RangeResult range, string model, double diodeTemperatureK)
+    {
+        ArgumentNullException.ThrowIfNull(range);
+        var candidate = range.ModelComparison?.Candidates.FirstOrDefault(c => c.Model == model);
+        if (candidate?.Parameters is not { Count: > 0 } p || p.Any(v => !double.IsFinite(v)))
+        {
+            return null;
+        }
+
+        IDropModel m;
+        try
+        {
+            m = DropModels.Create(model, diodeTemperatureK);
+        }
+        catch (InvalidDataException)
+        {
+            return null;
+        }
+
+        return m.ParameterCount == p.Count ? new DropCurve(range, m, [.. p], new double[p.Count, p.Count]) : null;
+    }
+
     /// <summary>The drop in volts at <paramref name="currentA"/>.</summary>
     public double Drop(double currentA) => _model.Evaluate(currentA, _p, []);
 

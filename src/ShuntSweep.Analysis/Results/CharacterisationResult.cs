@@ -114,6 +114,7 @@ public sealed record ModelComparison(string Chosen, string? RunnerUp, string Rul
 /// <param name="Bic">The Bayesian information criterion (lower is better).</param>
 /// <param name="NestedOver">The simpler model it was F-tested against.</param>
 /// <param name="FTestPValue">The p-value of that F-test (small: the extra parameters are needed).</param>
+/// <param name="Parameters">The fitted parameter values in the model's order (null when not fitted), so that any candidate's curve can be drawn.</param>
 public sealed record ModelCandidate(
     string Model,
     int ParameterCount,
@@ -124,7 +125,8 @@ public sealed record ModelCandidate(
     double Aicc,
     double Bic,
     string? NestedOver,
-    double FTestPValue);
+    double FTestPValue,
+    IReadOnlyList<double>? Parameters = null);
 
 /// <summary>A thermal hold fitted with one or two exponentials: V(t) = V∞ + Σ Aₖ·exp(−t/τₖ).</summary>
 /// <param name="Step">The hold's step index.</param>

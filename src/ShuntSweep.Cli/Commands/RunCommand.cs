@@ -201,7 +201,7 @@ internal static class RunCommand
                 identities,
                 start,
                 seed,
-                bench.IsSimulated).Write(outDir);
+                bench.IsSimulated) { FuseDerating = sequence.Limits.FuseDerating }.Write(outDir);
             new LaunchRecord(answers is null ? null : Path.GetFullPath(answers), yes, archive).Write(outDir);
         }
 

@@ -21,6 +21,9 @@ public sealed record RunManifest(
     int Seed,
     bool Simulated)
 {
+    /// <summary>The fraction of a jack's fuse rating the sequence allowed (its fuseDerating limit), for plots that mark it; null in older manifests.</summary>
+    public double? FuseDerating { get; init; }
+
     /// <summary>The manifest's file name inside a run directory.</summary>
     public const string FileName = "manifest.json";
 

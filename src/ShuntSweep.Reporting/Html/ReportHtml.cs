@@ -402,6 +402,8 @@ internal static class ReportHtml
             (Core.Records.RunManifest.FileName, "sequence and bench by SHA-256, instrument identities, seed"),
             (RunRecords.ResultFile, "the analysis result this report shows"),
             (RunRecords.TrafficFile, "every message exchanged with the instruments"),
+            (RunReport.ExportFolder + "/" + Export.ResultCsv.PointsFile, "every range's points as CSV (units in the headers): current, drop, its uncertainty, residual, outlier flag"),
+            (RunReport.ExportFolder + "/" + Export.ResultCsv.CurveFile, "every range's fitted curve as CSV: drop, its uncertainty, V/I and dV/dI on a fine grid of currents"),
         })
         {
             html.Append(run.Has(file)

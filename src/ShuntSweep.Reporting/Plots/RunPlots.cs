@@ -19,9 +19,20 @@ internal static class RunPlots
         var plots = new List<RenderedPlot>();
         for (var i = 0; i < result.Ranges.Count; i++)
         {
-            if (result.Ranges[i].Points.Count > 0)
+            var range = result.Ranges[i];
+            if (range.Points.Count > 0)
             {
-                plots.Add(Drop(result.Ranges[i], i, result.DiodeTemperatureK));
+                plots.Add(Drop(range, i, result.DiodeTemperatureK));
+                var markers = RangeMarkers.For(range, run);
+                if (RangeViews.DropLog(range, i, result.DiodeTemperatureK, markers) is { } log)
+                {
+                    plots.Add(log);
+                }
+
+                if (RangeViews.Resistance(range, i, result.DiodeTemperatureK, markers) is { } resistance)
+                {
+                    plots.Add(resistance);
+                }
             }
         }
 

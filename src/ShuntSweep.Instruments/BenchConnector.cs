@@ -1,5 +1,4 @@
 using System.Net.Sockets;
-using Serilog;
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Documents;
 using ShuntSweep.Core.Timing;
@@ -29,7 +28,7 @@ public static class BenchConnector
         BenchDescription bench,
         IBenchClock clock,
         Func<string, Stream>? simulated,
-        ILogger? traffic,
+        TrafficLog? traffic,
         CancellationToken cancellationToken,
         IVisaLibrary? visa = null,
         IReadingEntry? readings = null)
@@ -87,7 +86,7 @@ public static class BenchConnector
         InstrumentProfile profile,
         Func<string, Stream>? simulated,
         TimeProvider ioTime,
-        ILogger? traffic,
+        TrafficTap? traffic,
         IVisaLibrary? visa,
         CancellationToken cancellationToken)
     {
@@ -180,7 +179,8 @@ public static class BenchConnector
             return new Connected(info, meter, meter);
         }
 
-        var session = await OpenSessionAsync(address, settings, profile, context.Simulated, context.IoTime, context.Traffic, context.Visa, cancellationToken);
+        var tap = context.Traffic?.For(BenchReader.KeyOf(entry.Role), address.Text);
+        var session = await OpenSessionAsync(address, settings, profile, context.Simulated, context.IoTime, tap, context.Visa, cancellationToken);
         try
         {
             var resilience = InstrumentResilience.Create(address.Text, settings.Resilience, context.IoTime);
@@ -198,7 +198,7 @@ public static class BenchConnector
             var errors = await driver.ReadErrorsAsync(cancellationToken);
             if (errors.Count > 0)
             {
-                context.Traffic?.ForContext("Resource", session.Resource).Warning("errors left in the queue on connection: {Errors}", string.Join("; ", errors));
+                tap?.Note($"errors left in the queue on connection: {string.Join("; ", errors)}");
             }
 
             if (driver is ScpiUutMeter uut)
@@ -217,7 +217,7 @@ public static class BenchConnector
 
     private sealed record Plan(InstrumentEntry Entry, ResourceAddress? Address, DriverSettings Settings, InstrumentProfile Profile);
 
-    private sealed record Context(Func<string, Stream>? Simulated, IVisaLibrary? Visa, IReadingEntry? Readings, TimeProvider IoTime, ILogger? Traffic);
+    private sealed record Context(Func<string, Stream>? Simulated, IVisaLibrary? Visa, IReadingEntry? Readings, TimeProvider IoTime, TrafficLog? Traffic);
 
     private sealed record Connected(ConnectedInstrument Info, IInstrument Driver, IAsyncDisposable Connection);
 

@@ -92,7 +92,7 @@ internal static class ProbeCommand
             return Terminal.Fail("nothing to probe: give resource strings or --bench BENCH.", ExitCodes.InvalidInput);
         }
 
-        using var traffic = trafficPath is null ? null : TrafficLog.Create(trafficPath);
+        using var traffic = trafficPath is null ? null : TrafficLog.Create(trafficPath, TimeProvider.System, TimeProvider.System.GetUtcNow());
         try
         {
             var results = await Task.WhenAll(targets.Select(t => ProbeAsync(t, count, simulator is null ? null : simulator.Connect, traffic, ct)));
@@ -114,12 +114,12 @@ internal static class ProbeCommand
         }
     }
 
-    private static async Task<Result> ProbeAsync(Target target, int count, Func<string, Stream>? simulated, Serilog.ILogger? traffic, CancellationToken ct)
+    private static async Task<Result> ProbeAsync(Target target, int count, Func<string, Stream>? simulated, TrafficLog? traffic, CancellationToken ct)
     {
         var time = TimeProvider.System;
         try
         {
-            await using var session = await BenchConnector.OpenSessionAsync(target.Address, target.Settings, target.Profile, simulated, time, traffic, null, ct);
+            await using var session = await BenchConnector.OpenSessionAsync(target.Address, target.Settings, target.Profile, simulated, time, traffic?.For("probe", target.Address.Text), null, ct);
             var identify = target.Profile.Query("common.identify");
             var trips = new double[count];
             string answer = string.Empty;

@@ -1,7 +1,5 @@
 using System.CommandLine;
 using System.Globalization;
-using Serilog;
-using Serilog.Formatting.Compact;
 using ShuntSweep.Analysis;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Cli.Composition;
@@ -12,6 +10,7 @@ using ShuntSweep.Engine.Journal;
 using ShuntSweep.Engine.Planning;
 using ShuntSweep.Engine.Running;
 using ShuntSweep.Engine.Sequences;
+using ShuntSweep.Instruments;
 using ShuntSweep.Reporting;
 using ShuntSweep.Reporting.Archive;
 using ShuntSweep.Reporting.Comparison;
@@ -165,7 +164,7 @@ internal static class RunCommand
         Sequence sequence, string sequencePath, BenchDescription bench, string? benchPath, string benchFile, RunPlan plan, IBenchClock clock, DateTimeOffset start,
         string outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, RunManifest? previous, TimeSpan? downtime, CancellationToken ct)
     {
-        using var traffic = new LoggerConfiguration().WriteTo.File(new CompactJsonFormatter(), Path.Combine(outDir, "traffic.jsonl")).CreateLogger();
+        using var traffic = TrafficLog.Create(Path.Combine(outDir, "traffic.jsonl"), clock.Time, start);
         await using var display = new RunDisplay(sequence.Title, plan.Steps.Count);
         IOperator op = answers is not null ? AnswerFileOperator.Load(answers) : bench.IsSimulated ? new SimulatedOperator() : new ConsoleOperator(display);
         if (yes)

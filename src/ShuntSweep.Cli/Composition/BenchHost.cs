@@ -37,7 +37,7 @@ internal static class BenchHost
         bench.IsSimulated ? new VirtualBenchClock(new VirtualTimeProvider()) : new RealBenchClock(TimeProvider.System);
 
     /// <summary>Connects every instrument of <paramref name="bench"/>, starting the in-process simulator when the bench uses one.</summary>
-    public static async Task<InstrumentBench> ConnectAsync(BenchDescription bench, IBenchClock clock, int seed, Serilog.ILogger? traffic, CancellationToken ct)
+    public static async Task<InstrumentBench> ConnectAsync(BenchDescription bench, IBenchClock clock, int seed, TrafficLog? traffic, CancellationToken ct)
     {
         var needsSimulator = bench.Instruments.Values.Any(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase));
         var simulator = needsSimulator ? SimulatedBench.Create(bench, clock, seed) : null;

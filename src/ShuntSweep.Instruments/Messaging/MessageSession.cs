@@ -1,7 +1,6 @@
 using System.Net.Sockets;
 using System.Runtime.CompilerServices;
 using System.Text;
-using Serilog;
 using ShuntSweep.Instruments.Transports;
 
 namespace ShuntSweep.Instruments.Messaging;
@@ -23,7 +22,7 @@ public sealed class MessageSession : IAsyncDisposable
     private readonly SemaphoreSlim _gate = new(1, 1);
     private readonly TransportOpener? _opener;
     private readonly TimeProvider _ioTime;
-    private readonly ILogger? _traffic;
+    private readonly TrafficTap? _traffic;
     private readonly byte[] _readTerminator;
     private readonly byte[] _writeTerminator;
     private readonly Queue<AnswerKind> _owed = new();
@@ -39,7 +38,7 @@ public sealed class MessageSession : IAsyncDisposable
     private bool _disposed;
 
     /// <summary>Creates a session over an open transport; <paramref name="reopen"/>, when given, is used to reconnect after a lost connection or an unrecoverable stale answer.</summary>
-    public MessageSession(ITransport transport, SessionOptions? options = null, TransportOpener? reopen = null, TimeProvider? ioTime = null, ILogger? traffic = null)
+    public MessageSession(ITransport transport, SessionOptions? options = null, TransportOpener? reopen = null, TimeProvider? ioTime = null, TrafficTap? traffic = null)
     {
         ArgumentNullException.ThrowIfNull(transport);
         Options = options ?? new SessionOptions();
@@ -48,7 +47,7 @@ public sealed class MessageSession : IAsyncDisposable
         _transport = transport;
         _opener = reopen;
         _ioTime = ioTime ?? TimeProvider.System;
-        _traffic = traffic?.ForContext(nameof(Resource), Resource);
+        _traffic = traffic;
         _readTerminator = Encoding.ASCII.GetBytes(Options.ReadTermination);
         _writeTerminator = Encoding.ASCII.GetBytes(Options.WriteTermination);
         _timer = new CancellationTokenSource(Timeout.InfiniteTimeSpan, _ioTime);
@@ -94,7 +93,9 @@ public sealed class MessageSession : IAsyncDisposable
             var token = Arm(Options.Timeout, cancellationToken);
             try
             {
+                var sentAt = _ioTime.GetTimestamp();
                 await SendAsync(command, token);
+                _traffic?.Exchange(command, null, _ioTime.GetElapsedTime(sentAt).TotalMilliseconds);
             }
             catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
             {
@@ -128,7 +129,9 @@ public sealed class MessageSession : IAsyncDisposable
             var token = Arm(Options.Timeout, cancellationToken);
             try
             {
+                var sentAt = _ioTime.GetTimestamp();
                 await SendAsync(command, token);
+                _traffic?.Exchange(command, null, _ioTime.GetElapsedTime(sentAt).TotalMilliseconds);
             }
             catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
             {
@@ -168,7 +171,7 @@ public sealed class MessageSession : IAsyncDisposable
                 var length = await ReceiveMessageAsync(query, token);
                 var text = Encoding.Latin1.GetString(_in, _start, length);
                 Consume(length + _readTerminator.Length);
-                _traffic?.Information("rx {Text} after {ElapsedMs:F3} ms", text, _ioTime.GetElapsedTime(started).TotalMilliseconds);
+                _traffic?.Exchange(query, text, _ioTime.GetElapsedTime(started).TotalMilliseconds);
                 return text;
             }
             catch (OperationCanceledException) when (sent)
@@ -179,6 +182,7 @@ public sealed class MessageSession : IAsyncDisposable
                     throw;
                 }
 
+                _traffic?.Note($"no complete answer to '{query}' within {Seconds(limit)}{Pending()}");
                 throw new InstrumentTimeoutException(Resource, $"no complete answer to '{query}' within {Seconds(limit)}{Pending()}.", limit);
             }
             catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
@@ -215,7 +219,7 @@ public sealed class MessageSession : IAsyncDisposable
                 var (offset, length, total) = await ReceiveBlockAsync(query, token);
                 var data = _in.AsSpan(offset, length).ToArray();
                 Consume(total);
-                _traffic?.Information("rx {Text} after {ElapsedMs:F3} ms", $"<block of {length} bytes>", _ioTime.GetElapsedTime(started).TotalMilliseconds);
+                _traffic?.Exchange(query, $"<block of {length} bytes>", _ioTime.GetElapsedTime(started).TotalMilliseconds);
                 return data;
             }
             catch (OperationCanceledException) when (sent)
@@ -337,7 +341,7 @@ public sealed class MessageSession : IAsyncDisposable
 
         if (_start < _end)
         {
-            _traffic?.Warning("discarded {Count} unasked bytes {Text}", _end - _start, ScpiResponse.Shorten(Encoding.Latin1.GetString(_in, _start, _end - _start)));
+            _traffic?.Note($"discarded {_end - _start} unasked bytes {ScpiResponse.Shorten(Encoding.Latin1.GetString(_in, _start, _end - _start))}");
             ResetBuffer();
         }
     }
@@ -352,13 +356,13 @@ public sealed class MessageSession : IAsyncDisposable
                 if (_owed.Peek() == AnswerKind.Message)
                 {
                     var length = await ReceiveMessageAsync("(late answer)", token);
-                    _traffic?.Warning("discarded late answer {Text}", Encoding.Latin1.GetString(_in, _start, length));
+                    _traffic?.Note($"discarded late answer {Encoding.Latin1.GetString(_in, _start, length)}");
                     Consume(length + _readTerminator.Length);
                 }
                 else
                 {
                     var (_, length, total) = await ReceiveBlockAsync("(late answer)", token);
-                    _traffic?.Warning("discarded late block answer of {Count} bytes", length);
+                    _traffic?.Note($"discarded late block answer of {length} bytes");
                     Consume(total);
                 }
 
@@ -405,13 +409,13 @@ public sealed class MessageSession : IAsyncDisposable
             }
             catch (Exception ex) when (ex is IOException or SocketException or ObjectDisposedException)
             {
-                _traffic?.Debug("closing the old connection failed: {Error}", ex.Message);
+                _traffic?.Note($"closing the old connection failed: {ex.Message}");
             }
         }
 
         ResetBuffer();
         _owed.Clear();
-        _traffic?.Warning("reconnecting: {Why}", why);
+        _traffic?.Note($"reconnecting: {why}");
         var token = Arm(Options.Timeout, cancellationToken);
         try
         {
@@ -445,7 +449,9 @@ public sealed class MessageSession : IAsyncDisposable
         var token = Arm(Options.Timeout, cancellationToken);
         try
         {
+            var sentAt = _ioTime.GetTimestamp();
             await SendAsync(command, token);
+            _traffic?.Exchange(command, null, _ioTime.GetElapsedTime(sentAt).TotalMilliseconds);
         }
         catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
         {
@@ -475,7 +481,6 @@ public sealed class MessageSession : IAsyncDisposable
 
         Encoding.ASCII.GetBytes(command, _out);
         _writeTerminator.CopyTo(_out, command.Length);
-        _traffic?.Information("tx {Text}", command);
         try
         {
             await _transport!.WriteAsync(_out.AsMemory(0, size), token);
@@ -546,7 +551,7 @@ public sealed class MessageSession : IAsyncDisposable
         }
         catch (OperationCanceledException) when (token.IsCancellationRequested)
         {
-            _traffic?.Warning("truncated block: {Announced} bytes announced, {Received} received", dataLength, Math.Max(0, _end - _start - headerLength));
+            _traffic?.Note($"truncated block: {dataLength} bytes announced, {Math.Max(0, _end - _start - headerLength)} received");
             throw;
         }
 

@@ -96,6 +96,15 @@ public sealed class CommandLineConventionTests
     }
 
     [Fact]
+    public async Task RunJsonToStandardOutput_IsTheSummaryAlone()
+    {
+        var (exit, output, error) = await Cli.RunProcessAsync(NoEnvironment, "run", Smoke, "--out", Some.TempDirectory(), "--no-archive", "--json", "-");
+        Assert.True(exit == 0, error);
+        var schema = JsonSchema.FromText(File.ReadAllText(Repo.File("docs/schemas/run-summary.schema.json")));
+        Assert.True(schema.Evaluate(JsonNode.Parse(output)).IsValid, output);
+    }
+
+    [Fact]
     public async Task CompareJUnit_ValidatesAgainstTheXsd_AlsoWhenChecksFail()
     {
         var dir = Some.TempDirectory();

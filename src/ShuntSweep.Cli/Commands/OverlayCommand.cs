@@ -68,8 +68,8 @@ internal static class OverlayCommand
                     Markup.Escape(d.Label),
                     Markup.Escape(d.Model),
                     Markup.Escape(q.Quantity),
-                    $"{QuantityFormatter.Format(q.Reference, unit, 6)} ± {QuantityFormatter.Format(q.ExpandedReference, unit, 2)}",
-                    $"{QuantityFormatter.Format(q.Value, unit, 6)} ± {QuantityFormatter.Format(q.Expanded, unit, 2)}",
+                    QuantityFormatter.Format(q.Reference, q.ExpandedReference, unit),
+                    QuantityFormatter.Format(q.Value, q.Expanded, unit),
                     QuantityFormatter.Format(q.Difference, unit, 3),
                     En(q.En));
             }
@@ -81,10 +81,7 @@ internal static class OverlayCommand
     }
 
     private static string En(double en) => !double.IsFinite(en) ? "—"
-        : Math.Abs(en) <= 1 ? Number(en) : $"[red]{Number(en)}[/]";
-
-    /// <summary>En is a plain ratio: two decimals, no SI prefix.</summary>
-    private static string Number(double en) => en.ToString(Math.Abs(en) < 1000 ? "0.00" : "0.0E+0", System.Globalization.CultureInfo.InvariantCulture);
+        : Math.Abs(en) <= 1 ? QuantityFormatter.Format(en, SiUnit.None, 3) : $"[red]{QuantityFormatter.Format(en, SiUnit.None, 3)}[/]";
 
     private static string ResultPath(string path) => Directory.Exists(path) ? Path.Combine(path, "result.json") : path;
 

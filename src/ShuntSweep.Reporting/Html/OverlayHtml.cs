@@ -31,8 +31,8 @@ internal static class OverlayHtml
                 mine.SelectMany(d => d.Quantities.Select(q => (IReadOnlyList<string>)
                 [
                     E(d.Label), E(d.Model == d.ReferenceModel ? d.Model : $"{d.Model} (ref {d.ReferenceModel})"), E(q.Quantity),
-                    E($"{Value(q.Reference, q.Unit)} ± {Value(q.ExpandedReference, q.Unit)}"), E($"{Value(q.Value, q.Unit)} ± {Value(q.Expanded, q.Unit)}"),
-                    E(Value(q.Difference, q.Unit)), E(double.IsFinite(q.Relative) ? $"{N(100 * q.Relative, "+0.###;-0.###;0")} %" : "—"), EnTag(q.En),
+                    E(QuantityFormatter.Format(q.Reference, q.ExpandedReference, UnitOf(q.Unit))), E(QuantityFormatter.Format(q.Value, q.Expanded, UnitOf(q.Unit))),
+                    E(QuantityFormatter.Format(q.Difference, UnitOf(q.Unit), 3)), E(double.IsFinite(q.Relative) ? $"{QuantityFormatter.Format(100 * q.Relative, SiUnit.None, 3)} %" : "—"), EnTag(q.En),
                 ])).Concat(mine.Select(d => (IReadOnlyList<string>)
                 [
                     E(d.Label), E(d.Model), "points", E($"{d.Points.Count} at the same setpoints"), string.Empty, string.Empty, string.Empty,
@@ -64,8 +64,8 @@ internal static class OverlayHtml
         return html.ToString();
     }
 
-    private static string Value(double v, string unit) => Q(v, unit == "Ω" ? SiUnit.Ohm : SiUnit.Volt, 6);
+    private static SiUnit UnitOf(string unit) => unit == "Ω" ? SiUnit.Ohm : SiUnit.Volt;
 
     private static string EnTag(double en) => !double.IsFinite(en) ? "—"
-        : $"<span class=\"tag {(Math.Abs(en) <= 1 ? "ok" : "out")}\">{E(N(en, "0.00"))}</span>";
+        : $"<span class=\"tag {(Math.Abs(en) <= 1 ? "ok" : "out")}\">{E(QuantityFormatter.Format(en, SiUnit.None, 3))}</span>";
 }

@@ -77,7 +77,8 @@ public sealed class SimulatedBench : IAsyncDisposable
     public Stream Connect(string name) => new InProcessConnection(Find(name), _stop.Token);
 
     /// <summary>Serves the instrument <paramref name="name"/> on <paramref name="stream"/> (a TCP connection, say) until either side closes it.</summary>
-    public async Task ServeAsync(string name, Stream stream, CancellationToken cancellationToken)
+    /// <remarks>A client that lets more than <see cref="ScpiSession.MaxPendingBytes"/> of replies pile up unread is dropped, and <paramref name="dropped"/> told why.</remarks>
+    public async Task ServeAsync(string name, Stream stream, CancellationToken cancellationToken, Action<string>? dropped = null)
     {
         ArgumentNullException.ThrowIfNull(stream);
         var instrument = Find(name);
@@ -87,7 +88,7 @@ public sealed class SimulatedBench : IAsyncDisposable
         }
 
         using var linked = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken, _stop.Token);
-        await using var session = new ScpiSession(instrument, stream, linked.Token);
+        await using var session = new ScpiSession(instrument, stream, linked.Token, dropped);
         await session.RunAsync(stream);
     }
 

@@ -16,6 +16,25 @@ public sealed class ResourceAddressTests
     }
 
     [Theory]
+    [InlineData("TCPIP::[::1]::5025::SOCKET", "::1", 5025)]
+    [InlineData("TCPIP0::[2001:db8::10]::6000::SOCKET", "2001:db8::10", 6000)]
+    [InlineData("TCPIP::[fe80::1:2:3:4]::1::SOCKET", "fe80::1:2:3:4", 1)]
+    public void Parse_TcpSocket_ReadsABracketedIpv6Host(string text, string host, int port)
+    {
+        // An IPv6 literal is bracketed as in a URL (RFC 3986 §3.2.2) so that its colons are not taken for '::' separators;
+        // 2001:db8::/32 is the RFC 3849 documentation prefix.
+        var a = Assert.IsType<TcpSocketAddress>(ResourceAddress.Parse(text));
+        Assert.Equal((host, port), (a.Host, a.Port));
+    }
+
+    [Theory]
+    [InlineData("TCPIP::[::1::5025::SOCKET", "expected TCPIP")]
+    [InlineData("TCPIP::[192.0.2.1]::5025::SOCKET", "IPv6 address in brackets")]
+    [InlineData("TCPIP::2001:db8:1:2:3:4:5:6::5025::SOCKET", "write an IPv6 address in brackets")]
+    public void Parse_MalformedIpv6_SaysHowToWriteIt(string text, string expected) =>
+        Assert.Contains(expected, Assert.Throws<FormatException>(() => ResourceAddress.Parse(text)).Message, StringComparison.Ordinal);
+
+    [Theory]
     [InlineData("ASRL/dev/ttyUSB0::INSTR", "/dev/ttyUSB0")]
     [InlineData("ASRL1::INSTR", "/dev/ttyS0")]
     [InlineData("asrl3::instr", "/dev/ttyS2")]

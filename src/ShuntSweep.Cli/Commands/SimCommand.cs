@@ -21,7 +21,7 @@ internal static class SimCommand
         };
         var host = new Option<string>("--host")
         {
-            Description = "The address to listen on. Anything but loopback needs --allow-remote.",
+            Description = "The address to listen on (IPv4 or IPv6, ::1 say). Anything but loopback needs --allow-remote; 0.0.0.0 or :: listens on every interface and prints each one's resource strings.",
             DefaultValueFactory = _ => "127.0.0.1",
         };
         var port = new Option<int>("--port")
@@ -122,7 +122,7 @@ internal static class SimCommand
             TcpBenchHost tcp;
             try
             {
-                tcp = TcpBenchHost.Start(simulated, address, port, allowRemote);
+                tcp = TcpBenchHost.Start(simulated, address, port, allowRemote, line => Console.Error.WriteLine($"{TimeProvider.System.GetUtcNow():HH:mm:ss} {line}"));
             }
             catch (System.Net.Sockets.SocketException ex)
             {
@@ -133,10 +133,16 @@ internal static class SimCommand
             await using (tcp)
             {
                 Console.WriteLine($"Serving '{description.Name}' (UUT {description.Uut.Manufacturer} {description.Uut.Model} s/n {description.Uut.Serial}), seed {seed}, {(speed == 1 ? "real time" : $"{speed}x real time")}.");
-                foreach (var (name, _, resource) in tcp.Endpoints)
+                if (!IPAddress.IsLoopback(address))
+                {
+                    await Console.Error.WriteLineAsync(
+                        $"warning: serving on {address} with --allow-remote: anyone who can reach these ports over the network can drive this simulated bench; it has no authentication. Serve on a trusted network only.");
+                }
+
+                foreach (var (name, served, _) in tcp.Endpoints)
                 {
                     var role = description.Instruments.Values.First(i => string.Equals(i.Resource, "SIM::" + name, StringComparison.OrdinalIgnoreCase)).Role;
-                    Console.WriteLine($"  {BenchReader.KeyOf(role),-10} {resource}");
+                    Console.WriteLine($"  {BenchReader.KeyOf(role),-10} {string.Join("  ", tcp.Addresses.Select(a => TcpBenchHost.ResourceFor(a, served)))}");
                 }
 
                 if (writeBench is not null)

@@ -452,7 +452,9 @@ public sealed class Runner
     }
 
     /// <summary>Names the likely cause when the load stops regulating, from the current, the drop and the load's voltage as they are now.</summary>
-    /// <remarks>An open UUT (blown fuse) leaves almost the whole supply voltage across the UUT's jacks and none at the load;
+    /// <remarks>A loop current above the setpoint is the load's fault (the supply's limit then holds it); a supply whose output is off or far
+    /// below its set voltage (it was reset, or sits in its current limit) leaves nothing to regulate;
+    /// an open UUT (blown fuse) leaves almost the whole set supply voltage across the UUT's jacks and none at the load;
     /// dropout leaves the load below its minimum operating voltage; anything else is the load's own doing.</remarks>
     private async Task<string> DiagnoseLostRegulationAsync(CurrentStep step, Current setpoint, Voltage supplyVolts, Voltage loadVolts, CancellationToken ct)
     {
@@ -460,9 +462,10 @@ public sealed class Runner
         var current = await _bench.Load.MeasureCurrentAsync(ct);
         var drop = (await ReadTogetherAsync(Readings.Drop, ct)).Drop;
         var collapsed = Math.Abs(current.Amperes) < 0.01 * Math.Abs(setpoint.Amperes);
-        if (collapsed && Math.Abs(drop) > 0.5 * supplyVolts.Volts)
+        var supplySet = _description.Supply.Voltage;
+        if (!await _bench.Supply.IsOutputOnAsync(ct))
         {
-            return $"Open circuit at {setpoint} on {step.Range}: the current collapsed to {current} and {new Voltage(drop)} of the supply's {supplyVolts} now stands across the UUT's jacks. The UUT's {step.Jack} fuse has probably opened; turn everything off and check it before re-wiring.";
+            return $"The supply's output is off at {setpoint} on {step.Range} although the run had turned it on: the supply was probably reset or tripped its own protection. Check it before running again.";
         }
 
         var fullScale = _description.Uut.Range(step.Range).FullScale.Amperes;
@@ -470,6 +473,16 @@ public sealed class Runner
         {
             var limit = _protection.FirstOrDefault(p => p.Jack == step.Jack)?.CurrentLimit;
             return $"The loop current ({current}) is above the setpoint ({setpoint}) on {step.Range}: the load does not follow its setpoint{(limit is { } l ? $", and the supply's {l} current limit is what held the current" : string.Empty)}. Check the load before using it again.";
+        }
+
+        if (supplyVolts.Volts < 0.5 * supplySet.Volts && !(collapsed && Math.Abs(drop) > 0.5 * supplySet.Volts))
+        {
+            return $"The supply gives {supplyVolts} at {setpoint} on {step.Range}, far below its {supplySet} setting: it was probably reset, or it sits in its current limit. Check its voltage and current limit before running again.";
+        }
+
+        if (collapsed && Math.Abs(drop) > 0.5 * supplySet.Volts)
+        {
+            return $"Open circuit at {setpoint} on {step.Range}: the current collapsed to {current} and {new Voltage(drop)} of the supply's {supplySet} now stands across the UUT's jacks. The UUT's {step.Jack} fuse has probably opened; turn everything off and check it before re-wiring.";
         }
 
         if (loadVolts < _description.Load.MinimumVoltage)

@@ -13,7 +13,7 @@ public abstract record ResourceAddress
 
     /// <summary>Parses a resource string; throws <see cref="FormatException"/> with what was expected.</summary>
     /// <remarks>
-    /// Accepted forms: <c>TCPIP[board]::host::port::SOCKET</c>, <c>ASRL[board]::INSTR</c> (board n is /dev/ttyS(n-1)),
+    /// Accepted forms: <c>TCPIP[board]::host::port::SOCKET</c> (an IPv6 host in brackets, <c>TCPIP::[::1]::5025::SOCKET</c>), <c>ASRL[board]::INSTR</c> (board n is /dev/ttyS(n-1)),
     /// <c>ASRL/dev/ttyX::INSTR</c>, <c>USB[board]::vendor::product[::serial[::interface]]::INSTR</c>, and <c>SIM::name</c>.
     /// Keywords are case-insensitive (VPP-4.3 §4.3.1.1).
     /// </remarks>
@@ -25,7 +25,7 @@ public abstract record ResourceAddress
         }
 
         var t = text.Trim();
-        var parts = t.Split("::");
+        var parts = Split(t);
         var head = parts[0];
         if (head.Equals("SIM", StringComparison.OrdinalIgnoreCase))
         {
@@ -63,9 +63,16 @@ public abstract record ResourceAddress
         if (parts.Length == 4 && parts[3].Equals("SOCKET", StringComparison.OrdinalIgnoreCase))
         {
             var host = parts[1];
-            if (!IsHost(host))
+            if (host.StartsWith('['))
             {
-                throw new FormatException($"'{t}': '{host}' is not a host name or IP address.");
+                if (!IsBracketedIpv6(host))
+                {
+                    throw new FormatException($"'{t}': '{host}' is not an IPv6 address in brackets (for example [::1] or [2001:db8::10]).");
+                }
+            }
+            else if (!IsHost(host) || host.Contains(':', StringComparison.Ordinal))
+            {
+                throw new FormatException($"'{t}': '{host}' is not a host name or IP address{(host.Contains(':', StringComparison.Ordinal) ? " (write an IPv6 address in brackets, for example [::1])" : string.Empty)}.");
             }
 
             if (!int.TryParse(parts[2], NumberStyles.None, CultureInfo.InvariantCulture, out var port) || port is < 1 or > 65535)
@@ -76,7 +83,7 @@ public abstract record ResourceAddress
             return new TcpSocketAddress { Text = t, Host = host.Trim('[', ']'), Port = port };
         }
 
-        if (parts.Length is 2 or 3 or 4 && parts[^1].Equals("INSTR", StringComparison.OrdinalIgnoreCase) && IsHost(parts[1]))
+        if (parts.Length is 2 or 3 or 4 && parts[^1].Equals("INSTR", StringComparison.OrdinalIgnoreCase) && (IsHost(parts[1]) || IsBracketedIpv6(parts[1])))
         {
             // VXI-11 (TCPIP::host[::lan device]::INSTR) and HiSLIP (TCPIP::host::hislip0::INSTR) are left to a VISA library.
             return new VisaOnlyAddress { Text = t };
@@ -155,16 +162,48 @@ public abstract record ResourceAddress
             : throw new FormatException($"'{t}': the USB {what} id '{s}' must be a number 0…65535 (decimal or 0x hex).");
     }
 
+    /// <summary>Splits a resource string at its <c>::</c> separators, keeping a bracketed IPv6 address (whose colons are not separators) whole.</summary>
+    private static string[] Split(string text)
+    {
+        var parts = new List<string>();
+        var start = 0;
+        var inBrackets = false;
+        for (var i = 0; i < text.Length; i++)
+        {
+            if (text[i] == '[')
+            {
+                inBrackets = true;
+            }
+            else if (text[i] == ']')
+            {
+                inBrackets = false;
+            }
+            else if (!inBrackets && text[i] == ':' && i + 1 < text.Length && text[i + 1] == ':')
+            {
+                parts.Add(text[start..i]);
+                start = i + 2;
+                i++;
+            }
+        }
+
+        parts.Add(text[start..]);
+        return [.. parts];
+    }
+
+    private static bool IsBracketedIpv6(string s) =>
+        s.Length > 2 && s[0] == '[' && s[^1] == ']'
+        && System.Net.IPAddress.TryParse(s[1..^1], out var address) && address.AddressFamily == System.Net.Sockets.AddressFamily.InterNetworkV6;
+
     private static bool IsName(string s) => s.Length > 0 && s.All(c => char.IsAsciiLetterOrDigit(c) || c is '-' or '_');
 
     private static bool IsHost(string s) =>
-        s.Length > 0 && s.Length <= 253 && s.All(c => char.IsAsciiLetterOrDigit(c) || c is '-' or '.' or ':' or '[' or ']' or '_');
+        s.Length > 0 && s.Length <= 253 && s.All(c => char.IsAsciiLetterOrDigit(c) || c is '-' or '.' or ':' or '_');
 }
 
 /// <summary>A raw TCP socket, <c>TCPIP::host::port::SOCKET</c>.</summary>
 public sealed record TcpSocketAddress : ResourceAddress
 {
-    /// <summary>The host name or IP address.</summary>
+    /// <summary>The host name or IP address (an IPv6 address without its brackets, <c>::1</c>).</summary>
     public required string Host { get; init; }
 
     /// <summary>The TCP port (SCPI raw sockets are commonly 5025).</summary>

@@ -14,20 +14,27 @@ internal sealed class ScpiSession : IAsyncDisposable
     /// <summary>The longest program message accepted; a longer one is discarded with -363 "Input buffer overrun".</summary>
     public const int MaxLine = 65536;
 
+    /// <summary>The most reply bytes a client may leave unread (1 MiB, some twenty thousand answers); a client past it is dropped, so one that
+    /// sends queries and never reads cannot make the server grow without bound.</summary>
+    public const int MaxPendingBytes = 1024 * 1024;
+
     private readonly SimulatedInstrument _instrument;
     private readonly Stream _output;
     private readonly CancellationTokenSource _stop;
     private readonly Channel<(FaultContext Context, byte[] Reply)> _replies = Channel.CreateUnbounded<(FaultContext, byte[])>(new UnboundedChannelOptions { SingleReader = true });
     private readonly List<byte> _line = [];
     private readonly Task _pump;
+    private readonly Action<string>? _dropped;
+    private long _pending;
     private bool _overrun;
     private bool _closed;
 
-    /// <summary>Starts a session that writes its responses to <paramref name="output"/>.</summary>
-    public ScpiSession(SimulatedInstrument instrument, Stream output, CancellationToken cancellationToken)
+    /// <summary>Starts a session that writes its responses to <paramref name="output"/>; <paramref name="dropped"/> is told why, should the session drop its client.</summary>
+    public ScpiSession(SimulatedInstrument instrument, Stream output, CancellationToken cancellationToken, Action<string>? dropped = null)
     {
         _instrument = instrument;
         _output = output;
+        _dropped = dropped;
         _stop = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken);
         _pump = PumpAsync();
     }
@@ -140,7 +147,17 @@ internal sealed class ScpiSession : IAsyncDisposable
         var response = await _instrument.Scpi.ExecuteAsync(text, cancellationToken);
         if (response is not null)
         {
-            await _replies.Writer.WriteAsync((context, Encoding.ASCII.GetBytes(response + "\n")), cancellationToken);
+            var reply = Encoding.ASCII.GetBytes(response + "\n");
+            if (Interlocked.Add(ref _pending, reply.Length) > MaxPendingBytes)
+            {
+                _closed = true;
+                _replies.Writer.TryComplete();
+                await _stop.CancelAsync();
+                _dropped?.Invoke($"more than {MaxPendingBytes / 1024} KiB of replies left unread (it sends queries and does not read the answers).");
+                return;
+            }
+
+            await _replies.Writer.WriteAsync((context, reply), cancellationToken);
         }
     }
 
@@ -158,6 +175,7 @@ internal sealed class ScpiSession : IAsyncDisposable
 
                 await _output.WriteAsync(wire, _stop.Token);
                 await _output.FlushAsync(_stop.Token);
+                Interlocked.Add(ref _pending, -reply.Length);
             }
         }
         catch (OperationCanceledException) when (_stop.IsCancellationRequested)

@@ -33,14 +33,15 @@ internal sealed partial class ServedBench : IAsyncDisposable
     /// <summary>The path of <c>shuntsweep.dll</c> next to the tests.</summary>
     public static string Tool => Path.Combine(AppContext.BaseDirectory, "shuntsweep.dll");
 
-    /// <summary>Serves <paramref name="simulatorYaml"/> (a simulated bench file whose <c>simulation</c> section is last) at <paramref name="speed"/> times real time.</summary>
-    public static async Task<ServedBench> StartAsync(string simulatorYaml, double speed = 1)
+    /// <summary>Serves <paramref name="simulatorYaml"/> (a simulated bench file whose <c>simulation</c> section is last) at <paramref name="speed"/> times real time,
+    /// on the loopback address <paramref name="host"/> (127.0.0.1 or ::1).</summary>
+    public static async Task<ServedBench> StartAsync(string simulatorYaml, double speed = 1, string host = "127.0.0.1")
     {
         var ct = TestContext.Current.CancellationToken;
         var dir = Some.TempDirectory();
         var simFile = Path.Combine(dir, "simulated.yaml");
         await File.WriteAllTextAsync(simFile, simulatorYaml, ct);
-        var start = new ProcessStartInfo("dotnet", [Tool, "sim", "serve", simFile, "--port", "0", "--speed", speed.ToString(System.Globalization.CultureInfo.InvariantCulture)])
+        var start = new ProcessStartInfo("dotnet", [Tool, "sim", "serve", simFile, "--host", host, "--port", "0", "--speed", speed.ToString(System.Globalization.CultureInfo.InvariantCulture)])
         {
             RedirectStandardOutput = true,
             RedirectStandardError = true,
@@ -86,7 +87,7 @@ internal sealed partial class ServedBench : IAsyncDisposable
         try
         {
             using var client = new TcpClient();
-            await client.ConnectAsync(host, port, deadline.Token);
+            await client.ConnectAsync(host.Trim('[', ']'), port, deadline.Token);
             var stream = client.GetStream();
             await stream.WriteAsync(Encoding.ASCII.GetBytes(query + "\n"), deadline.Token);
             var buffer = new byte[256];
@@ -129,7 +130,7 @@ internal sealed partial class ServedBench : IAsyncDisposable
         _server.Dispose();
     }
 
-    [GeneratedRegex(@"^\s+(?<role>\w+)\s+TCPIP::(?<host>[^:]+)::(?<port>\d+)::SOCKET")]
+    [GeneratedRegex(@"^\s+(?<role>\w+)\s+TCPIP::(?<host>\[[0-9a-fA-F:.]+\]|[^:]+)::(?<port>\d+)::SOCKET")]
     private static partial Regex Endpoint();
 
     [GeneratedRegex(@"(?<role>supply|load|dropMeter|uutMeter|reference|shuntTap): \{ resource: ""SIM::\w+""")]

@@ -229,7 +229,7 @@ internal static class RunCommand
         {
             display.Report(new RunProgress(resumeAt, plan.Steps.Count, "connecting"));
             await display.StartAsync();
-            var runner = new Runner(instruments, bench, sequence, plan, op, journal, start, display, new RunnerOptions(ConfirmBeforeOutputs: !bench.IsSimulated, Downtime: downtime));
+            var runner = new Runner(instruments, bench, sequence, plan, op, journal, start, display, new RunnerOptions(ConfirmBeforeOutputs: !bench.IsSimulated, Downtime: downtime, ConcurrentQueries: !bench.IsSimulated));
             outcome = await runner.RunAsync(resumeAt, bench.IsSimulated, ct);
             await display.PauseAsync();
 

@@ -30,7 +30,8 @@ public sealed record RunOutcome(RunEnd End, string Message, int StepsDone, IRead
 /// <summary>How a run is conducted beyond its plan.</summary>
 /// <param name="ConfirmBeforeOutputs">Ask the operator before outputs first turn on (a real bench).</param>
 /// <param name="Downtime">For a resumed run, how long the bench stood between the interruption and the resume; journalled with the resume.</param>
-public sealed record RunnerOptions(bool ConfirmBeforeOutputs = false, TimeSpan? Downtime = null);
+/// <param name="ConcurrentQueries">Ask independent instruments at the same time where the order does not matter (a bench of separate connections); off keeps every exchange in one order, as virtual time needs.</param>
+public sealed record RunnerOptions(bool ConfirmBeforeOutputs = false, TimeSpan? Downtime = null, bool ConcurrentQueries = false);
 
 /// <summary>A safety condition that ends a run.</summary>
 public sealed class SafetyAbortException(string message) : Exception(message);

@@ -402,10 +402,7 @@ public sealed class Runner
 
     private async Task<IReadOnlyList<Sample>> FinishPointAsync(CurrentStep step, Current setpoint, List<Reading> readings, CancellationToken ct)
     {
-        var regulating = await _bench.Load.IsRegulatingAsync(ct);
-        var supplyVolts = await _bench.Supply.MeasureVoltageAsync(ct);
-        var loadVolts = await _bench.Load.MeasureVoltageAsync(ct);
-        var loadCurrent = readings.Any(r => double.IsNaN(r.Reference)) ? await _bench.Load.MeasureCurrentAsync(ct) : Current.Zero;
+        var (regulating, supplyVolts, loadVolts, loadCurrent) = await EndOfPointAsync(readings.Any(r => double.IsNaN(r.Reference)), ct);
         var samples = readings.Select((r, i) => new Sample(
             step.Range,
             step.Jack,
@@ -449,6 +446,34 @@ public sealed class Runner
         }
 
         return samples;
+    }
+
+    /// <summary>The end-of-point queries of supply and load; on a bench of independent instruments (sockets) the supply is asked while the load answers, since their order does not matter.</summary>
+    /// <remarks>A simulated bench asks them one after the other, so that virtual time, and with it the journal, stays the same from run to run.</remarks>
+    private async Task<(bool Regulating, Voltage Supply, Voltage Load, Current LoadCurrent)> EndOfPointAsync(bool needLoadCurrent, CancellationToken ct)
+    {
+        if (!_options.ConcurrentQueries)
+        {
+            var regulating = await _bench.Load.IsRegulatingAsync(ct);
+            var supplyVolts = await _bench.Supply.MeasureVoltageAsync(ct);
+            var loadVolts = await _bench.Load.MeasureVoltageAsync(ct);
+            var loadCurrent = needLoadCurrent ? await _bench.Load.MeasureCurrentAsync(ct) : Current.Zero;
+            return (regulating, supplyVolts, loadVolts, loadCurrent);
+        }
+
+        var supply = _bench.Supply.MeasureVoltageAsync(ct);
+        var load = LoadEndOfPointAsync(needLoadCurrent, ct);
+        await Task.WhenAll(supply, load);
+        var (r, v, i) = await load;
+        return (r, await supply, v, i);
+    }
+
+    private async Task<(bool Regulating, Voltage Volts, Current Current)> LoadEndOfPointAsync(bool needCurrent, CancellationToken ct)
+    {
+        var regulating = await _bench.Load.IsRegulatingAsync(ct);
+        var volts = await _bench.Load.MeasureVoltageAsync(ct);
+        var current = needCurrent ? await _bench.Load.MeasureCurrentAsync(ct) : Current.Zero;
+        return (regulating, volts, current);
     }
 
     /// <summary>Names the likely cause when the load stops regulating, from the current, the drop and the load's voltage as they are now.</summary>

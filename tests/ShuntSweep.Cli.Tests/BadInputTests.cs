@@ -34,6 +34,14 @@ public sealed partial class BadInputTests
     }
 
     [Fact]
+    public async Task SimServe_OfADirectory_OrAnImpossibleSimulationValue_IsInvalidInput_BeforeItListens()
+    {
+        Assert.Equal(2, await Cli.RunStrictAsync("sim", "serve", Some.TempDirectory(), "--port", "0"));
+        var bench = Some.TempFile(File.ReadAllText(Repo.File("simulators/handheld-tarnwell-tw18.yaml")).Replace("lineFrequency: 50 Hz", "lineFrequency: 0 Hz", StringComparison.Ordinal));
+        Assert.Equal(2, await Cli.RunStrictAsync("sim", "serve", bench, "--port", "0"));
+    }
+
+    [Fact]
     public async Task History_OfAFileThatIsNotADatabase_IsInvalidInput()
     {
         var notADatabase = Some.TempFile("these are not the tables you are looking for\n", ".db");

@@ -97,7 +97,7 @@ internal static class SimCommand
         {
             path = Composition.BenchHost.Locate(given);
         }
-        catch (FileNotFoundException ex)
+        catch (Exception ex) when (ex is FileNotFoundException or DocumentException)
         {
             await Console.Error.WriteLineAsync(ex.Message);
             return ExitCodes.InvalidInput;

@@ -18,7 +18,7 @@ internal static class Cli
         await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
         try
         {
-            return await ShuntSweepCommandLine.Create().Parse(args).InvokeAsync(new System.CommandLine.InvocationConfiguration { EnableDefaultExceptionHandler = false }, TestContext.Current.CancellationToken);
+            return await ShuntSweepCommandLine.InvokeAsync(args, new System.CommandLine.InvocationConfiguration { EnableDefaultExceptionHandler = false }, TestContext.Current.CancellationToken);
         }
         finally
         {

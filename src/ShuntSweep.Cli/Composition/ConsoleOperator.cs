@@ -12,8 +12,9 @@ internal sealed class ConsoleOperator(RunDisplay display) : IOperator
         await display.PauseAsync();
         try
         {
-            AnsiConsole.MarkupLineInterpolated($"[yellow]operator ({prompt.Id}):[/] {prompt.Text}");
-            return await new ConfirmationPrompt("Done? (n stops the run with the outputs off)") { DefaultValue = false }.ShowAsync(AnsiConsole.Console, cancellationToken);
+            // On standard error, like every caution: the operator sees it under --quiet and when the results are piped.
+            Terminal.Error.MarkupLineInterpolated($"[yellow]operator ({prompt.Id}):[/] {prompt.Text}");
+            return await new ConfirmationPrompt("Done? (n stops the run with the outputs off)") { DefaultValue = false }.ShowAsync(Terminal.Error, cancellationToken);
         }
         finally
         {

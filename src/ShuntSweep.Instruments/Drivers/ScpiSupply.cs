@@ -12,13 +12,7 @@ internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profi
     public async Task ConfigureAsync(Voltage voltage, Current currentLimit, CancellationToken cancellationToken = default)
     {
         // The limit first, so that the new voltage never drives the loop with the old, possibly higher, limit.
-        await ApplyAsync(
-            "current limit",
-            Profile.Commands("supply.setCurrentLimit", currentLimit.Amperes),
-            $"setting the current limit to {currentLimit}",
-            VerifyNumber("supply.queryCurrentLimit", currentLimit.Amperes),
-            safeOff: false,
-            cancellationToken);
+        await SetCurrentLimitAsync(currentLimit, cancellationToken);
         await ApplyAsync(
             "voltage",
             Profile.Commands("supply.setVoltage", voltage.Volts),

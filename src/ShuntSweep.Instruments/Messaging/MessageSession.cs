@@ -83,47 +83,29 @@ public sealed class MessageSession : IAsyncDisposable
     }
 
     /// <summary>Sends a command that has no answer.</summary>
-    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder))]
-    public async ValueTask WriteAsync(string command, CancellationToken cancellationToken = default)
-    {
-        await _gate.WaitAsync(cancellationToken);
-        try
-        {
-            await PrepareAsync(cancellationToken);
-            var token = Arm(Options.Timeout, cancellationToken);
-            try
-            {
-                var sentAt = _ioTime.GetTimestamp();
-                await SendAsync(command, token);
-                _traffic?.Exchange(command, null, _ioTime.GetElapsedTime(sentAt).TotalMilliseconds);
-            }
-            catch (OperationCanceledException) when (!cancellationToken.IsCancellationRequested)
-            {
-                _broken = true;
-                throw new InstrumentTimeoutException(Resource, $"the command '{command}' could not be sent within {Seconds(Options.Timeout)}.", Options.Timeout);
-            }
-            finally
-            {
-                Disarm();
-            }
-        }
-        finally
-        {
-            _gate.Release();
-        }
-    }
+    public ValueTask WriteAsync(string command, CancellationToken cancellationToken = default) => SendCommandAsync(command, urgent: false, cancellationToken);
 
     /// <summary>Sends a command at once, without first waiting for answers the instrument still owes: switching an output off must not queue behind a hung exchange.</summary>
     /// <remarks>Late answers stay owed and are discarded before the next ordinary exchange; a lost connection is still reopened first.</remarks>
-    public async ValueTask WriteUrgentAsync(string command, CancellationToken cancellationToken = default)
+    public ValueTask WriteUrgentAsync(string command, CancellationToken cancellationToken = default) => SendCommandAsync(command, urgent: true, cancellationToken);
+
+    [AsyncMethodBuilder(typeof(PoolingAsyncValueTaskMethodBuilder))]
+    private async ValueTask SendCommandAsync(string command, bool urgent, CancellationToken cancellationToken)
     {
         await _gate.WaitAsync(cancellationToken);
         try
         {
-            ObjectDisposedException.ThrowIf(_disposed, this);
-            if (_transport is null || _broken)
+            if (urgent)
             {
-                await ReopenAsync("the connection was lost", cancellationToken);
+                ObjectDisposedException.ThrowIf(_disposed, this);
+                if (_transport is null || _broken)
+                {
+                    await ReopenAsync("the connection was lost", cancellationToken);
+                }
+            }
+            else
+            {
+                await PrepareAsync(cancellationToken);
             }
 
             var token = Arm(Options.Timeout, cancellationToken);

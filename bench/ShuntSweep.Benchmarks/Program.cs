@@ -13,5 +13,11 @@ if (args is ["served", var servedSequence, var servedBench, ..] && (args.Length 
     return await ServedReport.RunAsync(servedSequence, servedBench, args.Length == 5 ? int.Parse(args[4], System.Globalization.CultureInfo.InvariantCulture) : 3);
 }
 
+// `coverage [SEEDS]` reports how often the analysis's 95 % intervals hold the known truth of synthetic sweeps.
+if (args is ["coverage", .. var rest])
+{
+    return CoverageReport.Run(rest is [var n] ? int.Parse(n, System.Globalization.CultureInfo.InvariantCulture) : 1000);
+}
+
 BenchmarkSwitcher.FromAssembly(typeof(ScheduleReport).Assembly).Run(args);
 return 0;

@@ -1,3 +1,5 @@
+using ShuntSweep.Core.Bench;
+
 namespace ShuntSweep.Analysis;
 
 /// <summary>Settings of the analysis; the defaults suit a bench with a few samples per point.</summary>
@@ -20,14 +22,15 @@ public sealed record AnalysisOptions
     /// <summary>A step with at least this many samples is examined as a thermal hold. The default value is 30.</summary>
     public int ThermalHoldMinimumSamples { get; init; } = 30;
 
-    /// <summary>The temperature of the clamp diodes for V_T = kT/q, in kelvin. The default value is 296.15 (23 °C).</summary>
+    /// <summary>The temperature of the clamp diodes for V_T = kT/q, in kelvin, when the bench records no ambient. The default value is 296.15 (23 °C).</summary>
     public double DiodeTemperatureKelvin { get; init; } = 296.15;
 
-    /// <summary>The reference ammeter's accuracy as a fraction of reading, taken as a rectangular limit. The default value is 5e-5 (50 ppm).</summary>
-    public double ReferenceFractionOfReading { get; init; } = 5e-5;
+    /// <summary>The Type B inputs from the bench file (instrument specifications, thermal EMF, leads, ambient); none by default, and
+    /// then no instrument term enters the budget except the drop meter's resolution inferred from the journal.</summary>
+    public BenchAllowances Allowances { get; init; } = BenchAllowances.None;
 
-    /// <summary>The reference ammeter's accuracy floor in amperes, taken as a rectangular limit. The default value is 0.</summary>
-    public double ReferenceFloorA { get; init; }
+    /// <summary>The diode temperature actually used: the bench's recorded ambient when there is one, else <see cref="DiodeTemperatureKelvin"/>.</summary>
+    public double DiodeKelvin => Allowances.AmbientCelsius is { } c ? c + 273.15 : DiodeTemperatureKelvin;
 
     /// <summary>Monte Carlo trials per point for the JCGM 101 cross-check; 0 skips it. The default value is 10 000.</summary>
     public int MonteCarloTrials { get; init; } = 10_000;

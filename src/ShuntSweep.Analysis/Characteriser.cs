@@ -60,7 +60,7 @@ public static class Characteriser
             ranges,
             decomposition,
             RangeAnalysis.Summarise(statements),
-            options.DiodeTemperatureKelvin,
+            options.DiodeKelvin,
             options.CoverageProbability);
     }
 }

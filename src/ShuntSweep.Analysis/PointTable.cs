@@ -40,8 +40,8 @@ internal static class PointTable
     /// <remarks>The scatter model is s²(I) = a + b·I² (a voltmeter noise floor plus noise that grows with the drop), fitted by QR to the
     /// points' sample variances weighted by their degrees of freedom. Each point's variance is then
     /// (νᵢ·sᵢ² + ν₀·s²(Iᵢ)) / (νᵢ + ν₀): a few samples per point cannot give a trustworthy weight on their own.
-    /// With no scatter anywhere (a noiseless or heavily quantised voltmeter) every point gets the same unit uncertainty,
-    /// and the fit's residual scale sets the uncertainties.</remarks>
+    /// With no scatter anywhere (a noiseless or heavily quantised voltmeter) a point's uncertainty is unknown (NaN, written as
+    /// null), every point weighs the same, and the resolution floor of the budget keeps the result's uncertainty from vanishing.</remarks>
     public static void AssignWeights(IReadOnlyList<MeasuredPoint> points, double modelDegreesOfFreedom)
     {
         var scattered = points.Where(p => p.Samples > 1 && double.IsFinite(p.DropStdDevVolts) && double.IsNaN(p.FixedUncertaintyVolts)).ToList();
@@ -57,7 +57,8 @@ internal static class PointTable
             var smooth = model(p.CurrentA);
             if (!(smooth > 0))
             {
-                p.DropUncertaintyVolts = 1.0;
+                // No scatter anywhere: the points weigh equally (see Weight) and the drop meter's resolution sets the floor.
+                p.DropUncertaintyVolts = double.NaN;
                 continue;
             }
 
@@ -66,6 +67,46 @@ internal static class PointTable
             var variance = ((ownDof * own) + (modelDegreesOfFreedom * smooth)) / (ownDof + modelDegreesOfFreedom);
             p.DropUncertaintyVolts = Math.Sqrt((variance > 0 ? variance : smooth) / p.Samples);
         }
+    }
+
+    /// <summary>The fit weight 1/u² of a point; 1 for every point when the scatter is unknown (all weigh the same).</summary>
+    public static double Weight(double dropUncertaintyVolts) =>
+        double.IsFinite(dropUncertaintyVolts) && dropUncertaintyVolts > 0 ? 1.0 / (dropUncertaintyVolts * dropUncertaintyVolts) : 1.0;
+
+    /// <summary>The step of a quantised drop meter seen in the samples: the greatest common divisor of the differences between
+    /// distinct readings (Euclid's algorithm with a tolerance); 0 when the readings show no quantisation.</summary>
+    public static double InferResolution(IEnumerable<double> readings)
+    {
+        var distinct = readings.Where(double.IsFinite).Distinct().Order().ToArray();
+        if (distinct.Length < 2)
+        {
+            return 0;
+        }
+
+        var scale = distinct.Max(Math.Abs);
+        var tolerance = scale * 1e-9;
+        var step = 0.0;
+        for (var i = 1; i < distinct.Length; i++)
+        {
+            var d = distinct[i] - distinct[i - 1];
+            var (a, b) = (Math.Max(step, d), Math.Min(step, d));
+            while (b > tolerance)
+            {
+                (a, b) = (b, a % b);
+                if (a - b <= tolerance && b > tolerance)
+                {
+                    b = 0;
+                }
+            }
+
+            step = a;
+            if (step <= scale * 1e-8)
+            {
+                return 0;
+            }
+        }
+
+        return step;
     }
 
     private static Func<double, double> ScatterModel(List<MeasuredPoint> points)

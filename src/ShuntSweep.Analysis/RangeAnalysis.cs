@@ -40,15 +40,20 @@ internal sealed class RangeAnalysis
             throw new ArgumentException($"Range '{name}' has {points.Count} point(s); a drop fit needs at least 3 points at different currents.");
         }
 
+        if (samples.All(s => s.Burden.Volts == 0))
+        {
+            throw new InvalidDataException($"Range '{name}': the drop meter read 0 V at every current: is it connected across the jacks?");
+        }
+
         PointTable.AssignWeights(points, options.ScatterModelDegreesOfFreedom);
         var overload = ReadingOverload(points, samples, spec);
         var data = new DropData(
             points.Select(p => p.CurrentA).ToArray(),
             points.Select(p => p.DropVolts).ToArray(),
-            points.Select(p => 1.0 / (p.DropUncertaintyVolts * p.DropUncertaintyVolts)).ToArray(),
+            points.Select(p => PointTable.Weight(p.DropUncertaintyVolts)).ToArray(),
             overload);
 
-        var candidates = DropModels.All(options.DiodeTemperatureKelvin).ToList();
+        var candidates = DropModels.All(options.DiodeKelvin).ToList();
         if (double.IsFinite(overload))
         {
             // An overloading reading over an ohmic drop is the amplified shunt's signature: the plain ohmic model is the same drop with less said.
@@ -57,7 +62,7 @@ internal sealed class RangeAnalysis
 
         // A model needs at least one degree of freedom left over to be judged at all.
         candidates.RemoveAll(m => m.ParameterCount >= data.Current.Length);
-        var fits = candidates.Select(m => DropFitter.Fit(m, data)).ToList();
+        var fits = DropFitter.DistinctHypotheses(candidates.Select(m => DropFitter.Fit(m, data)).ToList());
         var (chosen, runnerUp) = DropFitter.Choose(fits, options.ModelSignificance);
         var w = data.Weight;
         var studentised = Diagnostics.StudentisedResiduals(chosen.Residuals, w, chosen.Leverages, chosen.ChiSquare, chosen.DegreesOfFreedom);
@@ -67,13 +72,22 @@ internal sealed class RangeAnalysis
 
         var parameters = chosen.Model.Parameters.Select((mp, j) => new ParameterResult(mp.Name, mp.Unit, chosen.Parameters[j], Math.Sqrt(chosen.Covariance[j, j]), mp.Meaning)).ToList();
         var readingError = spec is null ? null : ReadingErrors(points, spec, options);
+        var headline = DropFitter.HeadlineResistance(fits, chosen, options.ModelSignificance);
+        var resolution = options.Allowances.DropMeter is { Resolution: > 0 } dm ? dm.Resolution : PointTable.InferResolution(samples.Select(s => s.Burden.Volts));
+        var (resistanceBudget, offsetBudget) = Budgets(chosen, data, headline, resolution, points.Count, options);
+        var warnings = new List<string>();
+        if (headline.Ohms < 0)
+        {
+            warnings.Add("the resistance is negative: the drop meter's leads are reversed (or the current flows the other way); check the wiring");
+        }
+
         var result = new RangeResult(
             name,
             jack,
             fullScale,
             chosen.Model.Name,
-            DropFitter.ModelAveragedResistance(fits, chosen),
-            new Estimate(chosen.Parameters[0], Math.Sqrt(chosen.Covariance[0, 0])),
+            FromBudget(resistanceBudget),
+            FromBudget(offsetBudget),
             Diagnostics.RootMeanSquare(chosen.Residuals, chosen.DegreesOfFreedom),
             chosen.Model.Evaluate(fullScale, chosen.Parameters, []),
             pointResults,
@@ -84,8 +98,101 @@ internal sealed class RangeAnalysis
             readingError,
             readingError is null ? null : Summarise(readingError.Select(r => r.Statement).ToList()),
             data.MaxAbsCurrent,
-            overload);
+            overload,
+            $"{headline.Method}: {string.Join(", ", headline.Models)}",
+            resistanceBudget,
+            offsetBudget,
+            resolution,
+            spec is null ? "the largest |setpoint| measured (no UUT description given)" : "the UUT description",
+            spec?.Resolution.Amperes ?? double.NaN,
+            spec?.Accuracy.FractionOfReading ?? double.NaN,
+            spec?.Accuracy.Counts ?? 0,
+            warnings.Count > 0 ? warnings : null);
         return new RangeAnalysis(result, data, fits, chosen);
+    }
+
+    /// <summary>The estimate a budget gives: u_c, ν_eff, k and U.</summary>
+    private static Estimate FromBudget(GumBudget b) =>
+        new(b.Value, b.CombinedStandardUncertainty, b.EffectiveDegreesOfFreedom, b.CoverageFactor, b.ExpandedUncertainty);
+
+    /// <summary>The budgets of the headline resistance and the offset: the fit (Type A), the drop meter's resolution (rectangular,
+    /// JCGM 100 4.3.7 and F.2.2.1, propagated through the fit point by point), and the bench file's Type B rows.</summary>
+    private static (GumBudget Resistance, GumBudget Offset) Budgets(CandidateFit chosen, DropData data, ResistanceChoice headline, double resolution, int points, AnalysisOptions options)
+    {
+        var (resR, resOffset) = ResolutionSensitivity(chosen, data);
+        var uq = resolution / Math.Sqrt(12);
+        var nu = Math.Max(headline.DegreesOfFreedom, 1);
+        var few = nu < 5 ? $", only {points} points: ν = {nu}" : string.Empty;
+        var a = options.Allowances;
+        var r = headline.Ohms;
+        var rInputs = new List<InputQuantity>
+        {
+            new($"fit scatter (Type A{few})", r, headline.StandardUncertainty, nu, InputDistribution.StudentT),
+            new("drop meter resolution", 0, uq * resR, double.PositiveInfinity, InputDistribution.Rectangular),
+            new("drop meter accuracy, reading term (relative)", 0, (a.DropMeter?.FractionOfReading ?? 0) / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+            new("reference accuracy, reading term (relative)", 0, (a.Reference?.FractionOfReading ?? 0) / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+            new("lead and contact allowance", 0, a.Leads / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+        };
+        static double ResistanceModel(double[] x) => (x[0] * (1 + x[2] - x[3])) + x[1] + x[4];
+        var offset = chosen.Parameters[0];
+        var uOffset = Math.Sqrt(Math.Max(chosen.Covariance[0, 0], 0));
+        var oInputs = new List<InputQuantity>
+        {
+            new($"fit scatter (Type A{few})", offset, uOffset, Math.Max(chosen.DegreesOfFreedom, 1), InputDistribution.StudentT),
+            new("drop meter resolution", 0, uq * resOffset, double.PositiveInfinity, InputDistribution.Rectangular),
+            new("drop meter accuracy, fixed term", 0, (a.DropMeter?.Floor ?? 0) / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+            new("reference accuracy, fixed term (times R)", 0, Math.Abs(r) * (a.Reference?.Floor ?? 0) / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+            new("thermal EMF allowance", 0, a.ThermalEmf / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+        };
+        static double OffsetModel(double[] x) => x[0] + x[1] + x[2] + x[3] + x[4];
+        return (GumBudget.Evaluate(ResistanceModel, Stated(rInputs), options.CoverageProbability), GumBudget.Evaluate(OffsetModel, Stated(oInputs), options.CoverageProbability));
+    }
+
+    /// <summary>Names each Type B row the bench file leaves at zero as not stated, so the budget shows what it lacks.</summary>
+    private static List<InputQuantity> Stated(List<InputQuantity> inputs) =>
+        inputs.Select((q, i) => i > 1 && q.StandardUncertainty == 0 ? q with { Name = q.Name + " (not stated in the bench file)" } : q).ToList();
+
+    /// <summary>√Σᵢ (∂R/∂yᵢ)² and √Σᵢ (∂V₀/∂yᵢ)²: how much a unit independent error on every point's drop moves the resistance and the
+    /// offset through the chosen (linearised) fit, solved by QR one point at a time.</summary>
+    private static (double Resistance, double Offset) ResolutionSensitivity(CandidateFit chosen, DropData data)
+    {
+        var n = data.Current.Length;
+        var m = chosen.Parameters.Length;
+        var a = new double[n * m];
+        var row = new double[m];
+        for (var i = 0; i < n; i++)
+        {
+            chosen.Model.Evaluate(data.Current[i], chosen.Parameters, row);
+            for (var j = 0; j < m; j++)
+            {
+                a[(j * n) + i] = row[j] * Math.Sqrt(data.Weight[i]);
+            }
+        }
+
+        var qr = new HouseholderQr(a, n, m);
+        if (qr.IsRankDeficient())
+        {
+            return (0, 0);
+        }
+
+        var gradient = Propagation.Gradient(p => chosen.Model.SmallSignalResistance(p), chosen.Parameters, chosen.Covariance);
+        double sr = 0, so = 0;
+        for (var i = 0; i < n; i++)
+        {
+            var b = new double[n];
+            b[i] = Math.Sqrt(data.Weight[i]);
+            var dp = qr.Solve(b);
+            var dr = 0.0;
+            for (var j = 0; j < m; j++)
+            {
+                dr += gradient[j] * dp[j];
+            }
+
+            sr += dr * dr;
+            so += dp[0] * dp[0];
+        }
+
+        return (Math.Sqrt(sr), Math.Sqrt(so));
     }
 
     /// <summary>The worst verdicts and the smallest TUR over <paramref name="statements"/>; null when there are none.</summary>
@@ -163,13 +270,19 @@ internal sealed class RangeAnalysis
                 new("UUT reading (repeatability)", p.ReadingA, n > 1 && double.IsFinite(p.ReadingStdDevA) ? p.ReadingStdDevA / Math.Sqrt(n) : 0, n > 1 ? n - 1 : double.PositiveInfinity, InputDistribution.StudentT),
                 new("UUT resolution (half a count)", 0, res / (2 * Math.Sqrt(3)), double.PositiveInfinity, InputDistribution.Rectangular),
                 new("reference current (repeatability)", p.CurrentA, p.Samples > 1 && double.IsFinite(p.CurrentStdDevA) ? p.CurrentStdDevA / Math.Sqrt(p.Samples) : 0, p.Samples > 1 ? p.Samples - 1 : double.PositiveInfinity, InputDistribution.StudentT),
-                new("reference ammeter accuracy", 0, ((options.ReferenceFractionOfReading * Math.Abs(p.CurrentA)) + options.ReferenceFloorA) / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular),
+                options.Allowances.Reference is { } reference
+                    ? new("reference ammeter accuracy", 0, reference.Limit(p.CurrentA) / Math.Sqrt(3), double.PositiveInfinity, InputDistribution.Rectangular)
+                    : new("reference ammeter accuracy (not stated in the bench file)", 0, 0, double.PositiveInfinity, InputDistribution.Rectangular),
+                new("reference ammeter resolution", 0, (options.Allowances.Reference?.Resolution ?? 0) / Math.Sqrt(12), double.PositiveInfinity, InputDistribution.Rectangular),
             };
-            static double ErrorModel(double[] x) => x[0] + x[1] - (x[2] + x[3]);
+            static double ErrorModel(double[] x) => x[0] + x[1] - (x[2] + x[3] + x[4]);
             var budget = GumBudget.Evaluate(ErrorModel, inputs, options.CoverageProbability);
             var mc = options.MonteCarloTrials > 0 ? MonteCarloCheck.Run(ErrorModel, inputs, budget, options.MonteCarloTrials, options.Seed + p.Step) : null;
             var limit = spec.Accuracy.Limit(new(p.ReadingA), spec.Resolution).Amperes;
-            list.Add(new ReadingErrorPoint(p.Step, p.CurrentA, p.ReadingA, budget.Value, budget, mc, ConformityStatement.Judge(budget.Value, limit, budget)));
+
+            // JCGM 101 §8: when the Monte Carlo interval does not validate the GUM one, the Monte Carlo interval is the result.
+            var decided = mc is { AgreesWithGum: false } ? mc.AsBudget(budget) : budget;
+            list.Add(new ReadingErrorPoint(p.Step, p.CurrentA, p.ReadingA, budget.Value, budget, mc, ConformityStatement.Judge(budget.Value, limit, decided), decided == budget ? "gum" : "monte-carlo"));
         }
 
         return list;

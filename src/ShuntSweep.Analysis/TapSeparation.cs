@@ -87,14 +87,15 @@ internal static class TapSeparation
         return new DropData(
             points.Select(p => p.CurrentA).ToArray(),
             points.Select(p => p.DropVolts).ToArray(),
-            points.Select(p => 1.0 / (p.DropUncertaintyVolts * p.DropUncertaintyVolts)).ToArray(),
+            points.Select(p => PointTable.Weight(p.DropUncertaintyVolts)).ToArray(),
             double.NaN);
     }
 
     private static Estimate Resistance(DropData data, AnalysisOptions options)
     {
-        var candidates = DropModels.All(options.DiodeTemperatureKelvin).Where(m => m.ParameterCount < data.Current.Length);
-        var fits = candidates.Select(m => DropFitter.Fit(m, data)).ToList();
-        return DropFitter.ModelAveragedResistance(fits, DropFitter.Choose(fits, options.ModelSignificance).Chosen);
+        var candidates = DropModels.All(options.DiodeKelvin).Where(m => m.ParameterCount < data.Current.Length);
+        var fits = DropFitter.DistinctHypotheses(candidates.Select(m => DropFitter.Fit(m, data)).ToList());
+        var headline = DropFitter.HeadlineResistance(fits, DropFitter.Choose(fits, options.ModelSignificance).Chosen, options.ModelSignificance);
+        return new Estimate(headline.Ohms, headline.StandardUncertainty);
     }
 }

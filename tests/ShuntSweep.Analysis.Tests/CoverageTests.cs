@@ -42,11 +42,12 @@ public sealed class CoverageTests
     }
 
     [Fact]
-    public void FaintlyHeatingShunt_ModelAveragedIntervals_CoverTheColdResistanceAtLeast86PercentOfTheTime()
+    public void FaintlyHeatingShunt_HeadlineIntervals_CoverTheColdResistanceAtLeast70PercentOfTheTime()
     {
         // Self-heating R = R₀/(1 − β·I²) (common practice, no source). A 10 mΩ shunt heating by 58 ppm at 1.2 A, about what 0.3 µV of noise can just see: the straight line and the heating model
-        // trade places from seed to seed, and the chosen line's slope alone sits high. Model averaging brings the coverage from 83 % (the
-        // chosen model's own interval) to 90 % here, short of 95 %: the known limit of Burnham and Anderson's form, stated in the docs.
+        // trade places from seed to seed, and the chosen line's slope alone sits high. Averaging only over the hypotheses that survive
+        // (F-test, or a lower AICc than the chosen line) covers 75 % here (measured); averaging in every curve covered 90 % but
+        // inflated an ohmic range's uncertainty two- to fourfold. The edge of visibility is the known limit, stated in the docs.
         const int seeds = 200;
         int hits = 0, straight = 0;
         for (var seed = 0; seed < seeds; seed++)
@@ -59,7 +60,7 @@ public sealed class CoverageTests
         }
 
         Assert.InRange(straight, seeds / 10, seeds - (seeds / 10));
-        Assert.InRange(hits / (double)seeds, 0.86, 0.995);
+        Assert.InRange(hits / (double)seeds, 0.70, 0.995);
     }
 
     [Fact]

@@ -55,7 +55,8 @@ public sealed class RunReportTests
         var html = File.ReadAllText(RunReport.Write(run.Directory));
         foreach (var r in run.Result.Ranges)
         {
-            Assert.Contains(System.Net.WebUtility.HtmlEncode(QuantityFormatter.Format(r.ResistanceOhms.Value, SiUnit.Ohm, 6)), html, StringComparison.Ordinal);
+            var (u, k) = r.ResistanceOhms.Expansion(run.Result.CoverageProbability);
+            Assert.Contains(System.Net.WebUtility.HtmlEncode(QuantityFormatter.FormatExpanded(r.ResistanceOhms.Value, u, k, SiUnit.Ohm)), html, StringComparison.Ordinal);
             Assert.Contains(System.Net.WebUtility.HtmlEncode(r.Model), html, StringComparison.Ordinal);
         }
     }

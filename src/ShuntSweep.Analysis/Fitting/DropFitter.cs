@@ -64,6 +64,14 @@ internal sealed record CandidateFit(
     public double Propagate(Func<double[], double> g) => Propagation.Variance(g, Parameters, Covariance);
 }
 
+/// <summary>The headline resistance of a range and how it was obtained.</summary>
+/// <param name="Ohms">The small-signal resistance.</param>
+/// <param name="StandardUncertainty">Its Type A standard uncertainty from the fit(s).</param>
+/// <param name="DegreesOfFreedom">The degrees of freedom of that uncertainty.</param>
+/// <param name="Method"><c>chosen model</c> or <c>Akaike-weighted average</c>.</param>
+/// <param name="Models">The models it rests on.</param>
+internal sealed record ResistanceChoice(double Ohms, double StandardUncertainty, double DegreesOfFreedom, string Method, IReadOnlyList<string> Models);
+
 /// <summary>Fits drop models to points, by QR for linear models and Levenberg–Marquardt for the rest, and compares them.</summary>
 internal static class DropFitter
 {
@@ -140,39 +148,63 @@ internal static class DropFitter
         return (chosen, runnerUp);
     }
 
-    /// <summary>The small-signal resistance averaged over every fitted model with Akaike weights wₘ ∝ exp(−ΔAICcₘ/2), with Burnham and
-    /// Anderson's unconditional uncertainty u² = Σ wₘ·(uₘ² + (Rₘ − R̄)²), which covers the choice of model as well as each fit's own scatter.</summary>
-    /// <remarks>When a simpler model wins by a hair (a faintly heating shunt against the straight line), the data cannot tell the two
-    /// apart, yet their resistances can differ by more than either's own uncertainty; a model that loses by a wide margin gets a
-    /// negligible weight, so a clear choice keeps its own value and uncertainty. Degenerate fits (a ridge of equally good parameters) are
-    /// left out: their propagated uncertainty is an artefact of the ridge, not knowledge about the resistance. Curved models that the
-    /// F-test kept from being chosen are averaged in: the gate decides which curve to name, but leaving them out of the resistance is
-    /// what biases the straight line's slope when a faint heating is real (CoverageTests measures both).</remarks>
-    public static Results.Estimate ModelAveragedResistance(IReadOnlyList<CandidateFit> fits, CandidateFit chosen)
+    /// <summary>Keeps one fit per physical hypothesis: the first in the registry's order that succeeded; the others are marked as the
+    /// same hypothesis, so a law and its approximation never both compete (or both enter an average) with equal evidence.</summary>
+    public static IReadOnlyList<CandidateFit> DistinctHypotheses(IReadOnlyList<CandidateFit> fits)
+    {
+        ArgumentNullException.ThrowIfNull(fits);
+        var kept = new Dictionary<string, CandidateFit>(StringComparer.Ordinal);
+        foreach (var f in fits.Where(f => f.Succeeded))
+        {
+            kept.TryAdd(f.Model.Hypothesis, f);
+        }
+
+        return fits.Select(f => f.Succeeded && kept[f.Model.Hypothesis] != f
+            ? f with { FailureReason = $"the same hypothesis as {kept[f.Model.Hypothesis].Model.Name}, which is the candidate for it" }
+            : f).ToList();
+    }
+
+    /// <summary>The headline small-signal resistance: the chosen model's own when the choice is clear (no other surviving hypothesis
+    /// within 2 AICc units of it), else the Akaike-weighted average over the surviving hypotheses with Burnham and Anderson's
+    /// unconditional uncertainty u² = Σ wₘ·(uₘ² + (Rₘ − R̄)²).</summary>
+    /// <remarks>Survivors are the successful, non-degenerate fits, one per hypothesis, that the evidence does not reject: the F-test
+    /// admits them, or their AICc is lower than the chosen model's (a faint heating the F-test at 1 % cannot confirm yet the
+    /// information criterion prefers; leaving it out makes the straight line's slope miss the cold resistance). Curves that are
+    /// both F-rejected and worse by AICc are left out: averaging them in inflates an ohmic range's uncertainty (measured by the
+    /// coverage runs in the benchmark project). Degrees of freedom are those of the chosen fit.</remarks>
+    public static ResistanceChoice HeadlineResistance(IReadOnlyList<CandidateFit> fits, CandidateFit chosen, double significance)
     {
         ArgumentNullException.ThrowIfNull(fits);
         ArgumentNullException.ThrowIfNull(chosen);
         var value = chosen.Model.SmallSignalResistance(chosen.Parameters);
-        var usable = fits.Where(f => f == chosen || (f.Succeeded && double.IsFinite(f.Aicc) && !f.IsDegenerate)).ToList();
+        var own = new ResistanceChoice(value, chosen.ResistanceUncertainty(), chosen.DegreesOfFreedom, "chosen model", [chosen.Model.Name]);
         if (!double.IsFinite(chosen.Aicc))
         {
-            return new Results.Estimate(value, chosen.ResistanceUncertainty());
+            return own;
         }
 
-        var best = usable.Min(f => f.Aicc);
-        var weights = usable.Select(f => Math.Exp(-(f.Aicc - best) / 2)).ToArray();
-        var values = usable.Select(f => f.Model.SmallSignalResistance(f.Parameters)).ToArray();
-        var us = usable.Select(f => f.ResistanceUncertainty()).ToArray();
-        var ok = Enumerable.Range(0, usable.Count).Where(m => double.IsFinite(values[m]) && double.IsFinite(us[m])).ToList();
-        var total = ok.Sum(m => weights[m]);
-        if (!(total > 0))
+        var baseFit = BaseFit(fits);
+        var survivors = fits.Where(f => f == chosen || (f.Succeeded && double.IsFinite(f.Aicc) && !f.IsDegenerate
+            && (f.Model.NestsOver is null || baseFit is null || NestedFTest(baseFit, f) < significance || f.Aicc < chosen.Aicc))).ToList();
+        if (!survivors.Any(f => f != chosen && f.Aicc < chosen.Aicc + 2))
         {
-            return new Results.Estimate(value, chosen.ResistanceUncertainty());
+            return own;
+        }
+
+        var best = survivors.Min(f => f.Aicc);
+        var weights = survivors.Select(f => Math.Exp(-(f.Aicc - best) / 2)).ToArray();
+        var values = survivors.Select(f => f.Model.SmallSignalResistance(f.Parameters)).ToArray();
+        var us = survivors.Select(f => f.ResistanceUncertainty()).ToArray();
+        var ok = Enumerable.Range(0, survivors.Count).Where(m => double.IsFinite(values[m]) && double.IsFinite(us[m])).ToList();
+        var total = ok.Sum(m => weights[m]);
+        if (!(total > 0) || ok.Count < 2)
+        {
+            return own;
         }
 
         var averaged = ok.Sum(m => weights[m] * values[m]) / total;
         var u = Math.Sqrt(ok.Sum(m => weights[m] / total * ((us[m] * us[m]) + ((values[m] - averaged) * (values[m] - averaged)))));
-        return new Results.Estimate(averaged, u);
+        return new ResistanceChoice(averaged, u, chosen.DegreesOfFreedom, "Akaike-weighted average", ok.Select(m => survivors[m].Model.Name).ToList());
     }
 
     /// <summary>The two-parameter straight line every curved model is F-tested against (ohmic, or the amplified shunt in its place).</summary>

@@ -10,13 +10,17 @@ public sealed class DropCurve
     private readonly double[] _p;
     private readonly double[,] _cov;
 
-    private DropCurve(RangeResult range, IDropModel model, double[] p, double[,] cov)
+    private DropCurve(RangeResult range, IDropModel model, double[] p, double[,] cov, bool offsetInCircuit)
     {
         Range = range;
         _model = model;
         _p = p;
         _cov = cov;
+        _zero = offsetInCircuit ? 0 : p[0];
     }
+
+    // The voltmeter's zero, subtracted from the drop unless the offset is a real voltage in the circuit.
+    private readonly double _zero;
 
     /// <summary>The range the curve belongs to.</summary>
     public RangeResult Range { get; }
@@ -31,7 +35,11 @@ public sealed class DropCurve
     }
 
     /// <summary>The curve of <paramref name="range"/>; a range without a parameter list (an early result file) is taken as ohmic.</summary>
-    public static DropCurve For(RangeResult range, double diodeTemperatureK)
+    /// <param name="range">The range.</param>
+    /// <param name="diodeTemperatureK">The diode temperature the result was fitted at.</param>
+    /// <param name="offsetInCircuit">Whether the fitted offset is a real voltage in the circuit; by default it is the voltmeter's zero
+    /// and the curve passes through zero.</param>
+    public static DropCurve For(RangeResult range, double diodeTemperatureK, bool offsetInCircuit = false)
     {
         ArgumentNullException.ThrowIfNull(range);
         if (range.Parameters is null || range.Parameters.Count == 0)
@@ -40,7 +48,7 @@ public sealed class DropCurve
             var cov = new double[2, 2];
             cov[0, 0] = range.OffsetVolts.StandardUncertainty * range.OffsetVolts.StandardUncertainty;
             cov[1, 1] = range.ResistanceOhms.StandardUncertainty * range.ResistanceOhms.StandardUncertainty;
-            return new DropCurve(range, ohmic, [range.OffsetVolts.Value, range.ResistanceOhms.Value], cov);
+            return new DropCurve(range, ohmic, [range.OffsetVolts.Value, range.ResistanceOhms.Value], cov, offsetInCircuit);
         }
 
         var model = DropModels.Create(range.Model, diodeTemperatureK);
@@ -66,7 +74,7 @@ public sealed class DropCurve
             }
         }
 
-        return new DropCurve(range, model, p, c);
+        return new DropCurve(range, model, p, c, offsetInCircuit);
     }
 
     /// <summary>The curve of another candidate model of <paramref name="range"/> (the runner-up, say) from the parameters its comparison
@@ -95,7 +103,44 @@ public sealed class DropCurve
     }
 
     /// <summary>The drop in volts at <paramref name="currentA"/>.</summary>
-    public double Drop(double currentA) => _model.Evaluate(currentA, _p, []);
+    public double Drop(double currentA) => _model.Evaluate(currentA, _p, []) - _zero;
+
+    /// <summary>The largest |current| at which the model still gives a drop (a self-heating element runs away beyond it); infinity when unbounded.</summary>
+    public double ValidUpTo()
+    {
+        var lo = Math.Max(Range.FittedUpToA, 1e-12);
+        if (!double.IsFinite(lo))
+        {
+            lo = Math.Max(Range.FullScaleA, 1e-12);
+        }
+
+        if (!Valid(lo))
+        {
+            return lo;
+        }
+
+        var hi = lo;
+        for (var k = 0; k < 40 && Valid(hi); k++)
+        {
+            lo = hi;
+            hi *= 2;
+        }
+
+        if (Valid(hi))
+        {
+            return double.PositiveInfinity;
+        }
+
+        for (var k = 0; k < 60; k++)
+        {
+            var mid = (lo + hi) / 2;
+            (lo, hi) = Valid(mid) ? (mid, hi) : (lo, mid);
+        }
+
+        return lo;
+    }
+
+    private bool Valid(double i) => double.IsFinite(Drop(i)) && double.IsFinite(Drop(-i));
 
     /// <summary>The slope dV/dI in ohms at <paramref name="currentA"/>.</summary>
     public double Slope(double currentA)
@@ -104,12 +149,18 @@ public sealed class DropCurve
         return (Drop(currentA + h) - Drop(currentA - h)) / (2 * h);
     }
 
-    /// <summary>The standard uncertainty of the drop at <paramref name="currentA"/>, from the parameter covariance.</summary>
+    /// <summary>The standard uncertainty of the drop at <paramref name="currentA"/>, from the parameter covariance (the offset's own
+    /// uncertainty left out when the offset is the voltmeter's zero).</summary>
     public double DropUncertainty(double currentA)
     {
         var m = _p.Length;
         Span<double> g = stackalloc double[m];
         _model.Evaluate(currentA, _p, g);
+        if (_zero != 0)
+        {
+            g[0] = 0;
+        }
+
         var v = 0.0;
         for (var i = 0; i < m; i++)
         {

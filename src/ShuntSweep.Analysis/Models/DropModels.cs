@@ -24,3 +24,14 @@ internal static class DropModels
             ?? throw new InvalidDataException($"Unknown drop model '{name}'; known models: {string.Join(", ", all.Select(m => m.Name))}.");
     }
 }
+
+/// <summary>Which physical hypothesis a model name in <c>result.json</c> stands for, so equivalent descriptions compare equal.</summary>
+public static class ModelHypotheses
+{
+    /// <summary>The hypothesis of the model called <paramref name="modelName"/> (<c>self-heating-cubic</c> is <c>self-heating</c>); an unknown name is its own.</summary>
+    public static string Of(string modelName) =>
+        DropModels.All(296.15).FirstOrDefault(m => m.Name == modelName)?.Hypothesis ?? modelName;
+
+    /// <summary>Whether two model names describe the same hypothesis.</summary>
+    public static bool Equivalent(string a, string b) => string.Equals(Of(a), Of(b), StringComparison.Ordinal);
+}

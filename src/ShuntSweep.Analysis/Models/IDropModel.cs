@@ -16,6 +16,10 @@ internal interface IDropModel : IModelFunction
     /// <summary>Whether the drop is linear in the parameters (fitted directly by QR, no iteration).</summary>
     bool IsLinear { get; }
 
+    /// <summary>The physical hypothesis the model expresses; two models with the same hypothesis (a law and its small-signal
+    /// approximation) are never both candidates.</summary>
+    string Hypothesis => Name;
+
     /// <summary>The simpler model this one reduces to when its extra parameters vanish (for the nested F-test), or null.</summary>
     string? NestsOver { get; }
 

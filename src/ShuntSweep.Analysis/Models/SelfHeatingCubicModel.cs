@@ -5,6 +5,8 @@ internal sealed class SelfHeatingCubicModel : IDropModel
 {
     public string Name => "self-heating-cubic";
 
+    public string Hypothesis => "self-heating";
+
     public IReadOnlyList<ModelParameter> Parameters { get; } =
     [
         new("offset", "V", "drop at zero current"),

@@ -21,10 +21,38 @@ public sealed record CharacterisationResult(
         ?? throw new KeyNotFoundException($"The result has no range '{name}'; it has {string.Join(", ", Ranges.Select(r => r.Name))}.");
 }
 
-/// <summary>A value with its standard uncertainty (k = 1), in the unit its field name states.</summary>
+/// <summary>A value with its standard uncertainty and, where evaluated, its expanded uncertainty, in the unit its field name states.</summary>
 /// <param name="Value">The estimate.</param>
-/// <param name="StandardUncertainty">The standard uncertainty of the estimate.</param>
-public sealed record Estimate(double Value, double StandardUncertainty);
+/// <param name="StandardUncertainty">The standard uncertainty of the estimate (k = 1).</param>
+/// <param name="EffectiveDegreesOfFreedom">ν_eff of the standard uncertainty (Welch–Satterthwaite, JCGM 100 G.4); null when infinite.</param>
+/// <param name="CoverageFactor">k = t_p(ν_eff) for the file's coverage probability (JCGM 100 G.3); NaN when not evaluated.</param>
+/// <param name="ExpandedUncertainty">U = k·u; NaN when not evaluated.</param>
+public sealed record Estimate(
+    double Value,
+    double StandardUncertainty,
+    double? EffectiveDegreesOfFreedom = null,
+    double CoverageFactor = double.NaN,
+    double ExpandedUncertainty = double.NaN)
+{
+    /// <summary>A value with u, ν and the Student-t expanded uncertainty at <paramref name="coverageProbability"/>.</summary>
+    public static Estimate Expanded(double value, double standardUncertainty, double degreesOfFreedom, double coverageProbability)
+    {
+        var k = Uncertainty.GumBudget.StudentCoverageFactor(degreesOfFreedom, coverageProbability);
+        return new Estimate(value, standardUncertainty, double.IsFinite(degreesOfFreedom) ? degreesOfFreedom : null, k, k * standardUncertainty);
+    }
+
+    /// <summary>U, or k·u with the normal k for <paramref name="coverageProbability"/> when the file did not carry U (older results).</summary>
+    public (double U, double K) Expansion(double coverageProbability)
+    {
+        if (double.IsFinite(ExpandedUncertainty) && double.IsFinite(CoverageFactor))
+        {
+            return (ExpandedUncertainty, CoverageFactor);
+        }
+
+        var k = Uncertainty.GumBudget.StudentCoverageFactor(EffectiveDegreesOfFreedom ?? double.PositiveInfinity, coverageProbability);
+        return (k * StandardUncertainty, k);
+    }
+}
 
 /// <summary>The characterisation of one range: the drop model chosen, its resistance and offset, and the points it was fitted to.</summary>
 /// <param name="Name">The range's name.</param>
@@ -44,6 +72,15 @@ public sealed record Estimate(double Value, double StandardUncertainty);
 /// <param name="Conformity">The range's worst conformity statement over its points.</param>
 /// <param name="FittedUpToA">The largest |current| the model was fitted to: predictions beyond it are extrapolations.</param>
 /// <param name="ReadingLimitA">The smallest |current| at which the UUT reading overloaded inside the range (amplifier output swing), when seen.</param>
+/// <param name="ResistanceMethod">How the headline resistance was obtained: <c>chosen model: …</c> or <c>Akaike-weighted average: …</c> with the models.</param>
+/// <param name="ResistanceBudget">The uncertainty budget of the headline resistance (fit, resolution and the bench file's Type B rows).</param>
+/// <param name="OffsetBudget">The uncertainty budget of the offset.</param>
+/// <param name="DropResolutionVolts">The drop meter's resolution used for the floor: from the bench file, else inferred from the journal's quantisation (0: none seen).</param>
+/// <param name="FullScaleSource">Where the full scale came from.</param>
+/// <param name="ReadingResolutionA">The UUT's display resolution on the range (NaN without a UUT description).</param>
+/// <param name="AccuracyFractionOfReading">The UUT's specification, % of reading part, as a fraction (NaN without a UUT description).</param>
+/// <param name="AccuracyCounts">The UUT's specification, counts part.</param>
+/// <param name="Warnings">Wiring problems and other findings a person must see (a negative resistance: reversed leads).</param>
 public sealed record RangeResult(
     string Name,
     string Jack,
@@ -61,7 +98,21 @@ public sealed record RangeResult(
     IReadOnlyList<ReadingErrorPoint>? ReadingError = null,
     ConformitySummary? Conformity = null,
     double FittedUpToA = double.NaN,
-    double ReadingLimitA = double.NaN);
+    double ReadingLimitA = double.NaN,
+    string ResistanceMethod = "",
+    GumBudget? ResistanceBudget = null,
+    GumBudget? OffsetBudget = null,
+    double DropResolutionVolts = double.NaN,
+    string FullScaleSource = "",
+    double ReadingResolutionA = double.NaN,
+    double AccuracyFractionOfReading = double.NaN,
+    int AccuracyCounts = 0,
+    IReadOnlyList<string>? Warnings = null)
+{
+    /// <summary>The UUT's specification half-width at <paramref name="readingA"/>: fraction·|reading| + counts·resolution; NaN when unknown.</summary>
+    public double SpecificationLimit(double readingA) =>
+        (AccuracyFractionOfReading * Math.Abs(readingA)) + (AccuracyCounts * (double.IsFinite(ReadingResolutionA) ? ReadingResolutionA : 0));
+}
 
 /// <summary>One fitted model parameter.</summary>
 /// <param name="Name">Its name in the model.</param>
@@ -161,6 +212,8 @@ public sealed record ThermalTerm(Estimate AmplitudeVolts, Estimate TimeConstantS
 /// <param name="Budget">The GUM uncertainty budget of the error.</param>
 /// <param name="MonteCarlo">The JCGM 101 Monte Carlo cross-check of the budget (null when switched off).</param>
 /// <param name="Statement">The conformity statement against ±(% of reading + counts).</param>
+/// <param name="DecidedOn"><c>gum</c>, or <c>monte-carlo</c> when the Monte Carlo check did not validate the GUM interval and its own
+/// interval was used for the statement (JCGM 101 §8).</param>
 public sealed record ReadingErrorPoint(
     int Step,
     double ReferenceA,
@@ -168,7 +221,8 @@ public sealed record ReadingErrorPoint(
     double ErrorA,
     GumBudget Budget,
     MonteCarloCheck? MonteCarlo,
-    ConformityStatement Statement);
+    ConformityStatement Statement,
+    string DecidedOn = "gum");
 
 /// <summary>The worst conformity over a set of points (a range, or the whole UUT).</summary>
 /// <param name="SimpleAcceptance">The worst verdict under simple acceptance.</param>

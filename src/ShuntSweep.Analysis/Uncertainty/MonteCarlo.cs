@@ -40,6 +40,20 @@ public sealed record MonteCarloCheck(int Trials, double Mean, double StandardUnc
         return new MonteCarloCheck(trials, mean, sd, low, high, delta, agrees);
     }
 
+    /// <summary>The Monte Carlo result as a budget for a decision: the GUM estimate and lines, the Monte Carlo standard deviation, and
+    /// U the larger distance from the estimate to an end of the Monte Carlo interval (so ±U covers it), k = U/u.</summary>
+    public GumBudget AsBudget(GumBudget gum)
+    {
+        ArgumentNullException.ThrowIfNull(gum);
+        var u = Math.Max(gum.Value - Low, High - gum.Value);
+        return gum with
+        {
+            CombinedStandardUncertainty = StandardUncertainty,
+            CoverageFactor = StandardUncertainty > 0 ? u / StandardUncertainty : double.NaN,
+            ExpandedUncertainty = u,
+        };
+    }
+
     /// <summary>δ = ½·10^ℓ where u_c = c·10^ℓ with c a two-digit integer (JCGM 101 7.9.2, with n_dig = 2).</summary>
     public static double NumericalTolerance(double combined)
     {

@@ -3,6 +3,7 @@ using System.Globalization;
 using ShuntSweep.Analysis;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Cli.Composition;
+using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Records;
 using ShuntSweep.Core.Uut;
@@ -16,7 +17,7 @@ internal static class FitCommand
     public static Command Create()
     {
         var journalArg = new Argument<string>("journal") { Description = "A journal CSV (columns range, setpoint_A, reference_A, burden_V; others optional)." };
-        var uutOpt = new Option<string?>("--uut") { Description = "A UUT (or bench) file giving jacks, full scales and the specification." };
+        var uutOpt = new Option<string?>("--uut") { Description = "A UUT (or bench) file giving jacks, full scales and the specification; a bench file also gives the Type B inputs of the budget." };
         var outOpt = new Option<string?>("--out") { Description = "Where to write result.json (default: next to the journal)." };
         var command = new Command("fit", "Fit drop against current per range from a journal and write result.json.") { journalArg, uutOpt, outOpt };
         command.SetAction((parse, _) => Terminal.GuardAsync(() =>
@@ -38,7 +39,8 @@ internal static class FitCommand
 
             var uutPath = parse.GetValue(uutOpt);
             UutDescription? uut = uutPath is null ? null : UutReader.Load(uutPath);
-            var result = Characteriser.Analyse(contents.Samples, uut);
+            var options = new AnalysisOptions { Allowances = uutPath is null ? BenchAllowances.None : AllowancesOf(uutPath) };
+            var result = Characteriser.Analyse(contents.Samples, uut, options);
             var outPath = parse.GetValue(outOpt) ?? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(journalPath)) ?? ".", "result.json");
             ResultJson.Write(result, outPath);
             ShowRanges(result);
@@ -48,11 +50,16 @@ internal static class FitCommand
         return command;
     }
 
-    /// <summary>Prints one row per range: model, resistance ± expanded uncertainty, offset, burden at full scale.</summary>
+    /// <summary>The Type B inputs of a bench file; none for a plain UUT file.</summary>
+    public static BenchAllowances AllowancesOf(string path) =>
+        Core.Documents.YamlDocument.Load(path).Optional("bench") is null ? BenchAllowances.None : BenchReader.Load(path).Allowances ?? BenchAllowances.None;
+
+    /// <summary>Prints one row per range: model, resistance and offset with their expanded uncertainty and k, burden at full scale.</summary>
     public static void ShowRanges(CharacterisationResult result)
     {
-        var table = new Table().Title("Characterisation per range")
-            .AddColumns("range", "jack", "FS", "model", "R ± U (k=2)", "offset", "drop @ FS", "points");
+        var p = result.CoverageProbability;
+        var table = new Table().Title($"Characterisation per range (U at p = {QuantityFormatter.Format(p * 100, SiUnit.None)} %)")
+            .AddColumns("range", "jack", "FS", "model", "R ± U (k)", "offset ± U (k)", "drop @ FS", "points");
         foreach (var r in result.Ranges)
         {
             table.AddRow(
@@ -60,12 +67,36 @@ internal static class FitCommand
                 Markup.Escape(r.Jack),
                 new Current(r.FullScaleA).ToString(),
                 Markup.Escape(r.Model),
-                $"{QuantityFormatter.Format(r.ResistanceOhms.Value, SiUnit.Ohm, 6)} ± {QuantityFormatter.Format(2 * r.ResistanceOhms.StandardUncertainty, SiUnit.Ohm, 2)}",
-                QuantityFormatter.Format(r.OffsetVolts.Value, SiUnit.Volt, 2),
-                QuantityFormatter.Format(r.BurdenAtFullScaleVolts, SiUnit.Volt, 4),
+                Markup.Escape(Expanded(r.ResistanceOhms, SiUnit.Ohm, p)),
+                Markup.Escape(Expanded(r.OffsetVolts, SiUnit.Volt, p)),
+                QuantityFormatter.Format(r.BurdenAtFullScaleVolts, SiUnit.Volt),
                 r.Points.Count.ToString(CultureInfo.InvariantCulture));
         }
 
         AnsiConsole.Write(table);
+        foreach (var r in result.Ranges)
+        {
+            foreach (var w in r.Warnings ?? [])
+            {
+                Terminal.Warn($"range {r.Name}: {w}");
+            }
+
+            if (r.FullScaleSource.StartsWith("the largest", StringComparison.Ordinal))
+            {
+                AnsiConsole.MarkupLineInterpolated($"[yellow]note:[/] range {r.Name}: full scale taken from {r.FullScaleSource}.");
+            }
+
+            if (r.ResistanceOhms.EffectiveDegreesOfFreedom is < 5 and var nu)
+            {
+                AnsiConsole.MarkupLineInterpolated($"[yellow]note:[/] range {r.Name}: Type A uncertainty from few points (ν_eff = {QuantityFormatter.Format(nu, SiUnit.None, 3)}), hence k = {QuantityFormatter.FormatCoverageFactor(r.ResistanceOhms.Expansion(p).K)}.");
+            }
+        }
+    }
+
+    /// <summary>An estimate as value ± U (k = …) at the file's coverage probability.</summary>
+    public static string Expanded(Estimate e, SiUnit unit, double coverageProbability)
+    {
+        var (u, k) = e.Expansion(coverageProbability);
+        return QuantityFormatter.FormatExpanded(e.Value, u, k, unit);
     }
 }

@@ -73,16 +73,15 @@ internal static class HistoryCommand
             foreach (var range in history.Ranges)
             {
                 var table = new Table().Title($"Range {Markup.Escape(range.Range)} ({Markup.Escape(range.Jack)}): resistance over time, drift limit {Markup.Escape(limit.ToString())}")
-                    .AddColumns("start (UTC)", "model", "resistance", "u", "change", "drift");
+                    .AddColumns("start (UTC)", "model", "resistance ± u", "change", "drift");
                 foreach (var p in Drift.Assess(range, limit))
                 {
                     drifted += p.BeyondLimit ? 1 : 0;
                     table.AddRow(
                         p.Reading.Start.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture),
                         Markup.Escape(p.Reading.Model),
-                        QuantityFormatter.Format(p.Reading.ResistanceOhms, SiUnit.Ohm, 6),
-                        QuantityFormatter.Format(p.Reading.StandardUncertaintyOhms, SiUnit.Ohm, 3),
-                        double.IsFinite(p.ChangeFraction) ? (100 * p.ChangeFraction).ToString("+0.####;-0.####;0", CultureInfo.InvariantCulture) + " %" : "—",
+                        Markup.Escape(QuantityFormatter.Format(p.Reading.ResistanceOhms, p.Reading.StandardUncertaintyOhms, SiUnit.Ohm)),
+                        double.IsFinite(p.ChangeFraction) ? Markup.Escape($"{(p.ChangeFraction > 0 ? "+" : string.Empty)}{QuantityFormatter.Format(100 * p.ChangeFraction, SiUnit.None)} %") : "—",
                         p.BeyondLimit ? "[red]beyond limit[/]" : "[green]within[/]");
                 }
 

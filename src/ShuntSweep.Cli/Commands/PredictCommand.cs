@@ -19,12 +19,13 @@ internal static class PredictCommand
         var ohmsOpt = new Option<string>("--source-ohms") { Description = "The circuit's Thevenin resistance (on a rail: the circuit's own V/I), e.g. '39 ohm' for a radio drawing 85 mA from 3.3 V.", Required = true };
         var rangeOpt = new Option<string?>("--range") { Description = "Examine only this range (default: every range)." };
         var minOpt = new Option<string?>("--min-volts") { Description = "The circuit's minimum operating voltage, e.g. '3.0 V' where the radio browns out; ranges that leave less are flagged." };
+        var offsetOpt = new Option<bool>("--offset-in-circuit") { Description = "Treat the fitted offset as a real voltage in the circuit (default: it is the voltmeter's zero)." };
         var jsonOpt = new Option<bool>("--json") { Description = "Write the prediction as JSON instead of a table." };
         var command = new Command("predict", "Predict the current, reading, error and voltage left with the UUT inserted in a circuit, per range; recommend a range.")
         {
-            resultOpt, voltsOpt, ohmsOpt, rangeOpt, minOpt, jsonOpt,
+            resultOpt, voltsOpt, ohmsOpt, rangeOpt, minOpt, offsetOpt, jsonOpt,
         };
-        command.SetAction((parse, _) => Terminal.GuardAsync(() => Task.FromResult(Run(parse, resultOpt, voltsOpt, ohmsOpt, rangeOpt, minOpt, jsonOpt))));
+        command.SetAction((parse, _) => Terminal.GuardAsync(() => Task.FromResult(Run(parse, resultOpt, voltsOpt, ohmsOpt, rangeOpt, minOpt, offsetOpt, jsonOpt))));
         return command;
     }
 
@@ -54,6 +55,7 @@ internal static class PredictCommand
         Option<string> ohmsOpt,
         Option<string?> rangeOpt,
         Option<string?> minOpt,
+        Option<bool> offsetOpt,
         Option<bool> jsonOpt)
     {
         try
@@ -63,7 +65,7 @@ internal static class PredictCommand
             var ohms = ParseQuantity("--source-ohms", parse.GetValue(ohmsOpt)!, SiUnit.Ohm);
             var minText = parse.GetValue(minOpt);
             double? min = minText is null ? null : ParseQuantity("--min-volts", minText, SiUnit.Volt);
-            var report = InsertionError.Predict(result, volts, ohms, parse.GetValue(rangeOpt), min);
+            var report = InsertionError.Predict(result, volts, ohms, parse.GetValue(rangeOpt), min, parse.GetValue(offsetOpt));
             if (parse.GetValue(jsonOpt))
             {
                 Console.Out.WriteLine(JsonSerializer.Serialize(report, ResultJson.Options));
@@ -92,9 +94,15 @@ internal static class PredictCommand
 
         AnsiConsole.WriteLine(circuit);
         var table = new Table().Title("Insertion error per range")
-            .AddColumns("range", "current", "reading", "error", "error %", "burden", "volts left", "notes");
+            .AddColumns("range", "current ± U (k)", "reading", "error", "error %", "total error", "burden", "volts left", "notes");
         foreach (var p in report.Ranges)
         {
+            if (p.Reason is not null)
+            {
+                table.AddRow(Markup.Escape(p.Range), "—", "—", "—", "—", "—", "—", "—", $"[red]{Markup.Escape(p.Reason)}[/]");
+                continue;
+            }
+
             var notes = new List<string>();
             if (p.BelowMinimum)
             {
@@ -113,19 +121,22 @@ internal static class PredictCommand
 
             table.AddRow(
                 Markup.Escape(p.Range),
-                $"{QuantityFormatter.Format(p.CurrentA.Value, SiUnit.Ampere, 5)} ± {QuantityFormatter.Format(2 * p.CurrentA.StandardUncertainty, SiUnit.Ampere, 2)}",
-                double.IsFinite(p.ReadingA) ? QuantityFormatter.Format(p.ReadingA, SiUnit.Ampere, 5) : "OL",
-                QuantityFormatter.Format(p.ErrorA, SiUnit.Ampere, 3),
-                double.IsFinite(p.RelativeError) ? $"{p.RelativeError * 100:0.###} %" : "-",
-                QuantityFormatter.Format(p.DropVolts, SiUnit.Volt, 4),
-                QuantityFormatter.Format(p.VoltsLeft, SiUnit.Volt, 4),
+                Markup.Escape(FitCommand.Expanded(p.CurrentA, SiUnit.Ampere, 0.95)),
+                double.IsFinite(p.ReadingA)
+                    ? Markup.Escape(double.IsFinite(p.ReadingResolutionA) ? QuantityFormatter.FormatAtResolution(p.ReadingA, p.ReadingResolutionA, SiUnit.Ampere) : QuantityFormatter.Format(p.ReadingA, SiUnit.Ampere, 5))
+                    : "OL",
+                Markup.Escape(QuantityFormatter.Format(p.ErrorA, SiUnit.Ampere, 3)),
+                double.IsFinite(p.RelativeError) ? Markup.Escape($"{QuantityFormatter.Format(p.RelativeError * 100, SiUnit.None, 3)} %") : "-",
+                double.IsFinite(p.TotalErrorA) ? Markup.Escape(QuantityFormatter.Format(p.TotalErrorA, SiUnit.Ampere, 2)) : "-",
+                Markup.Escape(QuantityFormatter.Format(p.DropVolts, SiUnit.Volt)),
+                Markup.Escape(QuantityFormatter.Format(p.VoltsLeft, SiUnit.Volt)),
                 string.Join(", ", notes));
         }
 
         AnsiConsole.Write(table);
         if (report.Recommended is { } r)
         {
-            AnsiConsole.MarkupLineInterpolated($"Recommended range: [green]{r}[/] ({report.Reason}); uncertainties are k = 2 from the fitted curve.");
+            AnsiConsole.MarkupLineInterpolated($"Recommended range: [green]{r}[/] ({report.Reason}); U is from the fitted curve, readings at the range's resolution.");
         }
         else
         {

@@ -291,7 +291,7 @@ internal static class RunCommand
         var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
         var samples = JournalCsv.Read(journalPath).Samples;
         var notes = new List<string>();
-        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes);
+        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes, new AnalysisOptions { Allowances = bench.Allowances ?? BenchAllowances.None });
         if (result is not null)
         {
             var resultPath = Path.Combine(outDir, "result.json");

@@ -54,6 +54,7 @@ public sealed record LoadSettings(Voltage MinimumVoltage, Current MaxCurrent, Po
 /// <param name="Wiring">The estimated resistance of the loop wiring, leads and contacts outside the UUT.</param>
 /// <param name="Instruments">The instruments by role.</param>
 /// <param name="Simulation">The <c>simulation</c> mapping, read by the simulator; null for a real bench.</param>
+/// <param name="Allowances">The Type B inputs of the uncertainty budget (<c>uncertainty</c> and <c>ambient</c> keys); none when absent.</param>
 public sealed record BenchDescription(
     string Name,
     string File,
@@ -62,7 +63,8 @@ public sealed record BenchDescription(
     LoadSettings Load,
     Resistance Wiring,
     IReadOnlyDictionary<InstrumentRole, InstrumentEntry> Instruments,
-    MappingReader? Simulation)
+    MappingReader? Simulation,
+    BenchAllowances? Allowances = null)
 {
     /// <summary>True when every instrument is in-process simulated (resource <c>SIM::…</c>).</summary>
     public bool IsSimulated => Instruments.Values.All(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase));

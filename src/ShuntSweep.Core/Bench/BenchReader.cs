@@ -81,8 +81,44 @@ public static class BenchReader
             }
         }
 
+        var allowances = ReadAllowances(doc);
         var simulation = doc.Mapping("simulation");
         doc.Finish();
-        return new BenchDescription(name, path, uut, supply, load, wiring, instruments, simulation);
+        return new BenchDescription(name, path, uut, supply, load, wiring, instruments, simulation, allowances);
+    }
+
+    /// <summary>Reads the optional <c>uncertainty</c> section (drop meter and reference specifications, thermal EMF and lead allowances) and <c>ambient</c>.</summary>
+    private static BenchAllowances ReadAllowances(MappingReader doc)
+    {
+        var ambient = doc.QuantityOrNull("ambient", SiUnit.Celsius, Allowed.Between(-273.15, 200, SiUnit.Celsius));
+        var map = doc.Mapping("uncertainty");
+        if (map is null)
+        {
+            return new BenchAllowances(AmbientCelsius: ambient);
+        }
+
+        var allowances = new BenchAllowances(
+            Meter(map.Mapping("dropMeter"), SiUnit.Volt),
+            Meter(map.Mapping("reference"), SiUnit.Ampere),
+            map.QuantityOr("thermalEmf", SiUnit.Volt, 0, Allowed.NonNegative(SiUnit.Volt)),
+            map.QuantityOr("leads", SiUnit.Ohm, 0, Allowed.NonNegative(SiUnit.Ohm)),
+            ambient);
+        map.Finish();
+        return allowances;
+    }
+
+    private static MeterSpecification? Meter(MappingReader? map, SiUnit unit)
+    {
+        if (map is null)
+        {
+            return null;
+        }
+
+        var spec = new MeterSpecification(
+            map.QuantityOr("reading", SiUnit.None, 0, Allowed.Between(0, 0.1, SiUnit.None) with { Text = "from 0 ppm to 10 % of the reading" }),
+            map.QuantityOr("floor", unit, 0, Allowed.NonNegative(unit)),
+            map.QuantityOr("resolution", unit, 0, Allowed.NonNegative(unit)));
+        map.Finish();
+        return spec;
     }
 }

@@ -54,7 +54,9 @@ public static class ResultComparer
                 continue;
             }
 
-            checks.Add(new CompareCheck(g.Name, "model", a.Model == g.Model, a.Model == g.Model ? $"model {a.Model} as in the golden result." : $"model {a.Model}, golden {g.Model}."));
+            var sameModel = Analysis.Models.ModelHypotheses.Equivalent(a.Model, g.Model);
+            checks.Add(new CompareCheck(g.Name, "model", sameModel, a.Model == g.Model ? $"model {a.Model} as in the golden result."
+                : sameModel ? $"model {a.Model}, golden {g.Model}: the same hypothesis." : $"model {a.Model}, golden {g.Model}."));
             checks.Add(Relative(g.Name, "resistance", a.ResistanceOhms.Value, g.ResistanceOhms.Value, tolerance.Fraction, SiUnit.Ohm));
             checks.Add(Relative(g.Name, "burden at full scale", a.BurdenAtFullScaleVolts, g.BurdenAtFullScaleVolts, tolerance.Fraction, SiUnit.Volt));
             checks.Add(Absolute(g.Name, "offset", a.OffsetVolts.Value, g.OffsetVolts.Value, tolerance.OffsetVolts, SiUnit.Volt));

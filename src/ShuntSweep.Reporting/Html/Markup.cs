@@ -16,6 +16,17 @@ internal static class Markup
     public static string Q(double value, SiUnit unit, int significant = 4) =>
         double.IsFinite(value) ? QuantityFormatter.Format(value, unit, Math.Max(significant, 3)) : "—";
 
+    /// <summary>An estimate as value ± U (k = …): its own expanded uncertainty, or the normal k at <paramref name="coverageProbability"/> for older results.</summary>
+    public static string Expanded(ShuntSweep.Analysis.Results.Estimate estimate, SiUnit unit, double coverageProbability)
+    {
+        ArgumentNullException.ThrowIfNull(estimate);
+        var (u, k) = estimate.Expansion(coverageProbability);
+        return QuantityFormatter.FormatExpanded(estimate.Value, u, k, unit);
+    }
+
+    /// <summary>A value with its standard uncertainty (GUM 7.2.6 rounding).</summary>
+    public static string Qu(double value, double uncertainty, SiUnit unit) => QuantityFormatter.Format(value, uncertainty, unit);
+
     /// <summary>A plain number in invariant form, or an em dash.</summary>
     public static string N(double value, string format = "G4") =>
         double.IsFinite(value) ? value.ToString(format, CultureInfo.InvariantCulture) : "—";

@@ -10,9 +10,6 @@ namespace ShuntSweep.Reporting.Html;
 /// <summary>Writes the one-file HTML report of a run: every number comes from the result or the manifest, formatted, never recomputed.</summary>
 internal static class ReportHtml
 {
-    /// <summary>The coverage factor the per-range table states resistance uncertainties with.</summary>
-    public const double TableCoverageFactor = 2;
-
     /// <summary>The report's HTML text; without <paramref name="showPaths"/> files are named without their folders and the run directory is
     /// left out, so that the same run gives the same report wherever it was written.</summary>
     public static string Build(RunRecords run, IReadOnlyList<RenderedPlot> plots, DateTimeOffset generatedAt, string software, bool showPaths = true)
@@ -173,15 +170,15 @@ internal static class ReportHtml
     {
         html.Append("<section id=\"ranges\"><h2>Results per range</h2>");
         Table(html, "data",
-            ["range", "jack", "full scale", "model", $"resistance ± U (k = {N(TableCoverageFactor)})", "offset", "burden at full scale", "drop per ampere at full scale", "fitted up to", "points (outliers)", "against specification"],
+            ["range", "jack", "full scale", "model", "resistance ± U (k)", "offset ± U (k)", "burden at full scale", "drop per ampere at full scale", "fitted up to", "points (outliers)", "against specification"],
             result.Ranges.Select(r => (IReadOnlyList<string>)
             [
                 $"<strong>{E(r.Name)}</strong>",
                 E(r.Jack),
                 E(Q(r.FullScaleA, SiUnit.Ampere)),
                 E(r.Model),
-                E($"{Q(r.ResistanceOhms.Value, SiUnit.Ohm, 6)} ± {Q(TableCoverageFactor * r.ResistanceOhms.StandardUncertainty, SiUnit.Ohm, 2)}"),
-                E($"{Q(r.OffsetVolts.Value, SiUnit.Volt, 3)} ± {Q(TableCoverageFactor * r.OffsetVolts.StandardUncertainty, SiUnit.Volt, 2)}"),
+                E(Expanded(r.ResistanceOhms, SiUnit.Ohm, result.CoverageProbability)) + (r.ResistanceMethod.Length > 0 ? $"<br><span class=\"muted\">{E(r.ResistanceMethod)}</span>" : string.Empty),
+                E(Expanded(r.OffsetVolts, SiUnit.Volt, result.CoverageProbability)),
                 E(Q(r.BurdenAtFullScaleVolts, SiUnit.Volt)),
                 E(r.FullScaleA != 0 ? $"{N(r.BurdenAtFullScaleVolts / r.FullScaleA, "G4")} V/A" : "—"),
                 E(Q(r.FittedUpToA, SiUnit.Ampere)) + (double.IsFinite(r.ReadingLimitA) ? $"<br><span class=\"muted\">reading overloads from {E(Q(r.ReadingLimitA, SiUnit.Ampere))}</span>" : string.Empty),
@@ -208,7 +205,7 @@ internal static class ReportHtml
         {
             html.Append(CultureInfo.InvariantCulture, $"<h3>Fitted parameters of {E(r.Name)} ({E(r.Model)})</h3>");
             Table(html, "data", ["parameter", "value", "standard uncertainty", "unit", "meaning"],
-                r.Parameters!.Select(p => (IReadOnlyList<string>)[E(p.Name), E(N(p.Value, "G6")), E(N(p.StandardUncertainty, "G3")), E(p.Unit), E(p.Meaning)]));
+                r.Parameters!.Select(p => (IReadOnlyList<string>)[E(p.Name), E(N(p.Value, "G6")), E(N(p.StandardUncertainty, "G2")), E(p.Unit), E(p.Meaning)]));
             if (r.Correlation is { Count: > 1 } correlation && correlation.Count == r.Parameters!.Count)
             {
                 html.Append("<p class=\"note\">Correlation of the parameter estimates:</p>");
@@ -268,8 +265,8 @@ internal static class ReportHtml
                 jack.Separations.Select(s => (IReadOnlyList<string>)
                 [
                     E(s.Hypothesis),
-                    E($"{Q(s.CommonSeriesOhms.Value, SiUnit.Ohm, 5)} ± {Q(s.CommonSeriesOhms.StandardUncertainty, SiUnit.Ohm, 2)}"),
-                    string.Join("<br>", s.ShuntOhms.Select(kv => E($"{kv.Key}: {Q(kv.Value.Value, SiUnit.Ohm, 5)} ± {Q(kv.Value.StandardUncertainty, SiUnit.Ohm, 2)}"))),
+                    E($"{Qu(s.CommonSeriesOhms.Value, s.CommonSeriesOhms.StandardUncertainty, SiUnit.Ohm)}"),
+                    string.Join("<br>", s.ShuntOhms.Select(kv => E($"{kv.Key}: {Qu(kv.Value.Value, kv.Value.StandardUncertainty, SiUnit.Ohm)}"))),
                     E($"{N(s.ChiSquare, "0.###")} / {s.DegreesOfFreedom}"),
                     E(s.DegreesOfFreedom > 0 ? N(s.PValue, "0.###") : "no check possible"),
                     s.Consistent switch
@@ -298,8 +295,8 @@ internal static class ReportHtml
             holds.Select(x => (IReadOnlyList<string>)
             [
                 E(x.r.Name), E(x.h.Step.ToString(CultureInfo.InvariantCulture)), E(Q(x.h.CurrentA, SiUnit.Ampere)), E(Q(x.h.DurationSeconds, SiUnit.Second, 3)), E(x.h.Model),
-                E($"{Q(x.h.SettledDropVolts.Value, SiUnit.Volt, 6)} ± {Q(x.h.SettledDropVolts.StandardUncertainty, SiUnit.Volt, 2)}"),
-                string.Join("<br>", x.h.Terms.Select(t => E($"{Q(t.AmplitudeVolts.Value, SiUnit.Volt, 4)} ± {Q(t.AmplitudeVolts.StandardUncertainty, SiUnit.Volt, 2)}, τ = {Q(t.TimeConstantSeconds.Value, SiUnit.Second, 4)} ± {Q(t.TimeConstantSeconds.StandardUncertainty, SiUnit.Second, 2)}, {t.AttributedTo}"))),
+                E($"{Qu(x.h.SettledDropVolts.Value, x.h.SettledDropVolts.StandardUncertainty, SiUnit.Volt)}"),
+                string.Join("<br>", x.h.Terms.Select(t => E($"{Qu(t.AmplitudeVolts.Value, t.AmplitudeVolts.StandardUncertainty, SiUnit.Volt)}, τ = {Qu(t.TimeConstantSeconds.Value, t.TimeConstantSeconds.StandardUncertainty, SiUnit.Second)}, {t.AttributedTo}"))),
                 E(Q(x.h.ResidualStdDevVolts, SiUnit.Volt, 3)),
             ]));
         html.Append("</section>\n");
@@ -351,9 +348,9 @@ internal static class ReportHtml
                 ("Combined standard uncertainty u_c(y)", E(Q(b.CombinedStandardUncertainty, SiUnit.Ampere, 3))),
                 ("Effective degrees of freedom ν_eff", E(Dof(b.EffectiveDegreesOfFreedom))),
                 ("Coverage factor k", E(N(b.CoverageFactor, "0.###"))),
-                ("Expanded uncertainty U", E($"{Q(b.ExpandedUncertainty, SiUnit.Ampere, 3)} (p = {N(b.CoverageProbability * 100, "0.##")} %)")),
+                ("Expanded uncertainty U", E($"{QuantityFormatter.FormatUncertainty(b.ExpandedUncertainty, SiUnit.Ampere)} (p = {N(b.CoverageProbability * 100, "0.##")} %)")),
                 ("Monte Carlo cross-check (JCGM 101)", worst.MonteCarlo is { } mc
-                    ? E($"{mc.Trials} trials: u = {Q(mc.StandardUncertainty, SiUnit.Ampere, 3)}, interval [{Q(mc.Low, SiUnit.Ampere, 3)}, {Q(mc.High, SiUnit.Ampere, 3)}]; ") + (mc.AgreesWithGum ? "<span class=\"tag ok\">agrees with the GUM budget</span>" : "<span class=\"tag near\">differs from the GUM budget</span>")
+                    ? E($"{mc.Trials} trials: u = {Q(mc.StandardUncertainty, SiUnit.Ampere, 3)}, interval [{Q(mc.Low, SiUnit.Ampere, 3)}, {Q(mc.High, SiUnit.Ampere, 3)}]; ") + (mc.AgreesWithGum ? "<span class=\"tag ok\">agrees with the GUM budget</span>" : "<span class=\"tag near\">differs from the GUM budget: the decision uses the Monte Carlo interval</span>")
                     : "not run"),
             ]);
             html.Append(CultureInfo.InvariantCulture, $"<h3>{E(r.Name)}: every point</h3>");
@@ -361,7 +358,7 @@ internal static class ReportHtml
                 points.Select(p => (IReadOnlyList<string>)
                 [
                     E(p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(p.ReferenceA, SiUnit.Ampere, 5)), E(Q(p.ReadingA, SiUnit.Ampere, 5)), E(Q(p.ErrorA, SiUnit.Ampere, 3)),
-                    E(Q(p.Budget.ExpandedUncertainty, SiUnit.Ampere, 2)), E(Q(p.Statement.ToleranceLimit, SiUnit.Ampere, 3)), E(N(p.Statement.TestUncertaintyRatio, "0.##")),
+                    E(QuantityFormatter.FormatUncertainty(p.Statement.ExpandedUncertainty, SiUnit.Ampere) + (p.DecidedOn == "monte-carlo" ? " (Monte Carlo)" : string.Empty)), E(Q(p.Statement.ToleranceLimit, SiUnit.Ampere, 3)), E(N(p.Statement.TestUncertaintyRatio, "0.##")),
                     E(N(p.Statement.ProbabilityOfConformance, "0.###")), VerdictTag(p.Statement.SimpleAcceptance), VerdictTag(p.Statement.GuardBanded),
                 ]));
         }

@@ -10,16 +10,16 @@ public sealed class DropCurve
     private readonly double[] _p;
     private readonly double[,] _cov;
 
-    private DropCurve(RangeResult range, IDropModel model, double[] p, double[,] cov, bool offsetInCircuit)
+    private DropCurve(RangeResult range, IDropModel model, double[] p, double[,] cov, bool includeOffset)
     {
         Range = range;
         _model = model;
         _p = p;
         _cov = cov;
-        _zero = offsetInCircuit ? 0 : p[0];
+        _zero = includeOffset ? 0 : p[0];
     }
 
-    // The voltmeter's zero, subtracted from the drop unless the offset is a real voltage in the circuit.
+    // The voltmeter's zero, subtracted from the drop when the curve is the circuit's (offset not included).
     private readonly double _zero;
 
     /// <summary>The range the curve belongs to.</summary>
@@ -37,9 +37,9 @@ public sealed class DropCurve
     /// <summary>The curve of <paramref name="range"/>; a range without a parameter list (an early result file) is taken as ohmic.</summary>
     /// <param name="range">The range.</param>
     /// <param name="diodeTemperatureK">The diode temperature the result was fitted at.</param>
-    /// <param name="offsetInCircuit">Whether the fitted offset is a real voltage in the circuit; by default it is the voltmeter's zero
-    /// and the curve passes through zero.</param>
-    public static DropCurve For(RangeResult range, double diodeTemperatureK, bool offsetInCircuit = false)
+    /// <param name="includeOffset">Whether the curve keeps the fitted offset (the drop as the voltmeter read it, the default); without
+    /// it the offset is taken as the voltmeter's zero and the curve passes through zero, as the circuit sees it.</param>
+    public static DropCurve For(RangeResult range, double diodeTemperatureK, bool includeOffset = true)
     {
         ArgumentNullException.ThrowIfNull(range);
         if (range.Parameters is null || range.Parameters.Count == 0)
@@ -48,7 +48,7 @@ public sealed class DropCurve
             var cov = new double[2, 2];
             cov[0, 0] = range.OffsetVolts.StandardUncertainty * range.OffsetVolts.StandardUncertainty;
             cov[1, 1] = range.ResistanceOhms.StandardUncertainty * range.ResistanceOhms.StandardUncertainty;
-            return new DropCurve(range, ohmic, [range.OffsetVolts.Value, range.ResistanceOhms.Value], cov, offsetInCircuit);
+            return new DropCurve(range, ohmic, [range.OffsetVolts.Value, range.ResistanceOhms.Value], cov, includeOffset);
         }
 
         var model = DropModels.Create(range.Model, diodeTemperatureK);
@@ -74,7 +74,7 @@ public sealed class DropCurve
             }
         }
 
-        return new DropCurve(range, model, p, c, offsetInCircuit);
+        return new DropCurve(range, model, p, c, includeOffset);
     }
 
     /// <summary>The curve of another candidate model of <paramref name="range"/> (the runner-up, say) from the parameters its comparison
@@ -99,7 +99,7 @@ public sealed class DropCurve
             return null;
         }
 
-        return m.ParameterCount == p.Count ? new DropCurve(range, m, [.. p], new double[p.Count, p.Count]) : null;
+        return m.ParameterCount == p.Count ? new DropCurve(range, m, [.. p], new double[p.Count, p.Count], true) : null;
     }
 
     /// <summary>The drop in volts at <paramref name="currentA"/>.</summary>

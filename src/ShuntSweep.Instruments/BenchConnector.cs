@@ -39,7 +39,7 @@ public static class BenchConnector
         var baseDirectory = Path.GetDirectoryName(Path.GetFullPath(bench.File));
 
         // Read every instrument's settings first, so that a typo is reported before anything is opened.
-        var plans = bench.Instruments.Values.Select(entry => Prepare(entry, baseDirectory, readings)).ToList();
+        var plans = bench.Instruments.Values.Select(entry => Prepare(entry, baseDirectory, readings, bench.Uut.Ranges)).ToList();
 
         var connecting = plans.Select(p => ConnectOneAsync(p, context, cancellationToken)).ToList();
         try
@@ -97,7 +97,8 @@ public static class BenchConnector
         var options = settings.Session with
         {
             ClearCommands = profile.Commands("common.afterResync"),
-            ErrorQuery = profile.Query("common.nextError"),
+            Errors = profile.Errors,
+            Pacing = profile.Pacing,
         };
         return new MessageSession(transport, options, opener, ioTime, traffic);
     }
@@ -131,7 +132,20 @@ public static class BenchConnector
         }
     }
 
-    private static Plan Prepare(InstrumentEntry entry, string? baseDirectory, IReadingEntry? readings)
+    /// <summary>Reads every instrument's settings and profile and checks that each profile has what its role needs (every required operation,
+    /// a code for every UUT range), without opening anything; the first problem is thrown with its file, line and column.</summary>
+    /// <exception cref="DocumentException">A setting, resource string or profile is wrong or incomplete.</exception>
+    public static void Validate(BenchDescription bench)
+    {
+        ArgumentNullException.ThrowIfNull(bench);
+        var baseDirectory = Path.GetDirectoryName(Path.GetFullPath(bench.File));
+        foreach (var entry in bench.Instruments.Values)
+        {
+            Prepare(entry, baseDirectory, OperatorCheck.Instance, bench.Uut.Ranges);
+        }
+    }
+
+    private static Plan Prepare(InstrumentEntry entry, string? baseDirectory, IReadingEntry? readings, IReadOnlyList<Core.Uut.RangeSpec> ranges)
     {
         var settings = DriverSettings.Read(entry.Settings, baseDirectory, entry.Role);
         if (settings.TypedByOperator)
@@ -151,14 +165,27 @@ public static class BenchConnector
             throw entry.Settings.Required("resource").Error($"{entry.Settings.What}.resource: {ex.Message}");
         }
 
+        InstrumentProfile profile;
         try
         {
-            return new Plan(entry, address, settings, InstrumentProfile.Load(settings.Profile, settings.BaseDirectory));
+            profile = InstrumentProfile.Load(settings.Profile, settings.BaseDirectory);
         }
         catch (FileNotFoundException ex)
         {
             throw entry.Settings.Required("profile").Error($"{entry.Settings.What}.profile: {ex.Message}");
         }
+
+        if (settings.StreamedReading is null)
+        {
+            var section = ProfileRequirements.SectionOf(entry.Role, settings.Shunt is not null);
+            var problems = ProfileRequirements.Check(profile, section, entry.Role == InstrumentRole.UutMeter ? ranges : null);
+            if (problems.Count > 0)
+            {
+                throw problems[0];
+            }
+        }
+
+        return new Plan(entry, address, settings, profile);
     }
 
     private static async Task<Connected> ConnectOneAsync(Plan plan, Context context, CancellationToken cancellationToken)
@@ -220,6 +247,15 @@ public static class BenchConnector
     private sealed record Context(Func<string, Stream>? Simulated, IVisaLibrary? Visa, IReadingEntry? Readings, TimeProvider IoTime, TrafficLog? Traffic);
 
     private sealed record Connected(ConnectedInstrument Info, IInstrument Driver, IAsyncDisposable Connection);
+
+    /// <summary>Stands in for the operator when a bench is only checked, so that a UUT of kind operator passes.</summary>
+    private sealed class OperatorCheck : IReadingEntry
+    {
+        public static readonly OperatorCheck Instance = new();
+
+        public Task<double> AskReadingAsync(string prompt, CancellationToken cancellationToken) =>
+            throw new InvalidOperationException("a bench that is only checked reads nothing.");
+    }
 
     private sealed class NoConnection : IAsyncDisposable
     {

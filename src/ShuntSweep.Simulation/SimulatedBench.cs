@@ -5,6 +5,7 @@ using ShuntSweep.Simulation.Faults;
 using ShuntSweep.Simulation.Hosting;
 using ShuntSweep.Simulation.Instruments;
 using ShuntSweep.Simulation.Physics;
+using ShuntSweep.Simulation.Scpi;
 
 namespace ShuntSweep.Simulation;
 
@@ -65,7 +66,8 @@ public sealed class SimulatedBench : IAsyncDisposable
             };
             var faults = settings.Faults.Where(f => f.Instrument == name).ToList();
             var faultRandom = SeededRandom.For(seed, "faults:" + name);
-            instruments[name] = new SimulatedInstrument(name, scpi, faults, n => new FaultContext(name, scpi, circuit, clock, faultRandom) { Commands = n });
+            var (front, lineEnd, replyEnd) = Dialects.FrontFor(bench, name, scpi);
+            instruments[name] = new SimulatedInstrument(name, scpi, faults, n => new FaultContext(name, scpi, circuit, clock, faultRandom) { Commands = n }, front, lineEnd, replyEnd);
         }
 
         return new SimulatedBench(bench, circuit, instruments);

@@ -21,8 +21,16 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
 
     public InstrumentProfile Profile { get; } = profile;
 
-    public Task<InstrumentIdentity> IdentifyAsync(CancellationToken cancellationToken = default) =>
-        QueryAsync(async ct => Parse("*IDN?", await Session.QueryAsync(Profile.Query("common.identify"), null, ct), static a => ScpiResponse.ParseIdentity(a)), cancellationToken);
+    public Task<InstrumentIdentity> IdentifyAsync(CancellationToken cancellationToken = default)
+    {
+        if (!Profile.HasIdentity)
+        {
+            return Task.FromResult(Profile.UnknownIdentity());
+        }
+
+        var query = Profile.Query("common.identify");
+        return QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), Profile.ParseIdentity), cancellationToken);
+    }
 
     public Task<IReadOnlyList<InstrumentError>> ReadErrorsAsync(CancellationToken cancellationToken = default) =>
         QueryAsync(async ct => await Session.DrainErrorsAsync(ct), cancellationToken);
@@ -76,9 +84,12 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
                 }
 
                 await SendCheckedAsync(commands, what, ct);
-                if (attempt > 0 && verify is not null && !await verify(ct))
+                if ((attempt > 0 || !Profile.Errors.CanAsk) && verify is not null && !await verify(ct))
                 {
-                    throw new InstrumentProtocolException(Resource, $"{what}: the setting is not in force after sending it again.");
+                    // Without an error queue a rejected setting is found only by reading it back.
+                    throw new InstrumentProtocolException(
+                        Resource,
+                        attempt > 0 ? $"{what}: the setting is not in force after sending it again." : $"{what}: the instrument did not take the setting (read back after {string.Join("; ", commands)}).");
                 }
 
                 return true;
@@ -139,31 +150,46 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
     protected async Task<double> QueryNumberAsync(string operation, TimeSpan? timeout, CancellationToken cancellationToken)
     {
         var query = Profile.Query(operation);
-        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, timeout, ct), static a => ScpiResponse.ParseNumber(a)), cancellationToken);
+        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, timeout, ct), a => Profile.ParseNumber(operation, a)), cancellationToken);
     }
 
     protected async Task<bool> QueryBooleanAsync(string operation, CancellationToken cancellationToken)
     {
         var query = Profile.Query(operation);
-        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseBoolean(a)), cancellationToken);
+        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), a => Profile.ParseBoolean(operation, a)), cancellationToken);
     }
 
     protected async Task<int> QueryIntegerAsync(string operation, CancellationToken cancellationToken)
     {
         var query = Profile.Query(operation);
-        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseInteger(a)), cancellationToken);
+        return await QueryAsync(async ct => Parse(query, await Session.QueryAsync(query, null, ct), a => Profile.ParseInteger(operation, a)), cancellationToken);
     }
 
     /// <summary>A verifier that reads <paramref name="operation"/> back and compares it with <paramref name="expected"/> (to 0.01 %, as instruments round settings to their resolution).</summary>
-    protected Func<CancellationToken, Task<bool>>? VerifyNumber(string operation, double expected) =>
-        Profile.Supports(operation)
-            ? async ct =>
-            {
-                var query = Profile.Query(operation);
-                var actual = Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseNumber(a));
-                return Math.Abs(actual - expected) <= 1e-12 + (1e-4 * Math.Abs(expected));
-            }
-            : null;
+    /// <param name="operation">The query that reads the setting back.</param>
+    /// <param name="expected">The value that was set, in SI units.</param>
+    /// <param name="sentBy">The operation that sent it, whose number format may have rounded it; null when not rounded.</param>
+    protected Func<CancellationToken, Task<bool>>? VerifyNumber(string operation, double expected, string? sentBy = null)
+    {
+        if (!Profile.Supports(operation))
+        {
+            return null;
+        }
+
+        var sent = expected;
+        if (sentBy is not null && Profile.Supports(sentBy))
+        {
+            var op = Profile.Operation(sentBy);
+            sent = op.ReadValue(op.FormatValue(expected, 50), 50);
+        }
+
+        return async ct =>
+        {
+            var query = Profile.Query(operation);
+            var actual = Parse(query, await Session.QueryAsync(query, null, ct), a => Profile.ParseNumber(operation, a));
+            return Math.Abs(actual - sent) <= 1e-12 + (1e-4 * Math.Abs(sent));
+        };
+    }
 
     /// <summary>A verifier that reads the boolean <paramref name="operation"/> back.</summary>
     protected Func<CancellationToken, Task<bool>>? VerifyBoolean(string operation, bool expected) =>
@@ -171,7 +197,7 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
             ? async ct =>
             {
                 var query = Profile.Query(operation);
-                return Parse(query, await Session.QueryAsync(query, null, ct), static a => ScpiResponse.ParseBoolean(a)) == expected;
+                return Parse(query, await Session.QueryAsync(query, null, ct), a => Profile.ParseBoolean(operation, a)) == expected;
             }
             : null;
 

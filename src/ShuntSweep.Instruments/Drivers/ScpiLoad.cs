@@ -28,7 +28,7 @@ internal sealed class ScpiLoad(MessageSession session, InstrumentProfile profile
             "current",
             Profile.Commands("load.setCurrent", level.Amperes),
             $"setting constant current {level}",
-            VerifyNumber("load.queryCurrent", level.Amperes),
+            VerifyNumber("load.queryCurrent", level.Amperes, "load.setCurrent"),
             safeOff: false,
             cancellationToken);
     }

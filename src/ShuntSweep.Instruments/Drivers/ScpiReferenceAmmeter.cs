@@ -14,7 +14,7 @@ internal sealed class ScpiReferenceAmmeter(MessageSession session, InstrumentPro
         var commands = new List<string>(Profile.Commands("reference.configure", maximum.Abs().Amperes));
         if (Profile.Supports("reference.setNplc"))
         {
-            commands.AddRange(Profile.Commands("reference.setNplc", nplc));
+            commands.AddRange(Profile.Commands("reference.setNplc", nplc, Timing.LineFrequency));
         }
 
         await ApplyAsync("configuration", commands, $"configuring current measurement up to {maximum} at {nplc} NPLC", null, safeOff: false, cancellationToken);

@@ -17,7 +17,7 @@ internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profi
             "voltage",
             Profile.Commands("supply.setVoltage", voltage.Volts),
             $"setting the voltage to {voltage}",
-            VerifyNumber("supply.queryVoltage", voltage.Volts),
+            VerifyNumber("supply.queryVoltage", voltage.Volts, "supply.setVoltage"),
             safeOff: false,
             cancellationToken);
     }

@@ -37,7 +37,7 @@ internal abstract class ScpiTriggeredMeter(MessageSession session, InstrumentPro
         return OnceAsync<IReadOnlyList<double>>(
             async ct =>
             {
-                var values = Parse(query, await Session.QueryAsync(query, timeout, ct), static a => ScpiResponse.ParseNumbers(a));
+                var values = Parse(query, await Session.QueryAsync(query, timeout, ct), a => Profile.ParseNumbers($"{section}.fetch", a));
                 return values.Length == _samples
                     ? values
                     : throw new InstrumentProtocolException(Resource, $"'{query}' returned {values.Length} readings; {_samples} were configured.");

@@ -20,12 +20,12 @@ internal sealed class ScpiUutMeter : ScpiTriggeredMeter, IUutMeter
     /// <summary>Sets the UUT's integration time from the bench file, where its profile can.</summary>
     public Task ApplyNplcAsync(CancellationToken cancellationToken) =>
         Profile.Supports("uut.setNplc")
-            ? ApplyAsync("nplc", Profile.Commands("uut.setNplc", _nplc), $"setting {_nplc} NPLC", null, safeOff: false, cancellationToken)
+            ? ApplyAsync("nplc", Profile.Commands("uut.setNplc", _nplc, Timing.LineFrequency), $"setting {_nplc} NPLC", null, safeOff: false, cancellationToken)
             : Task.CompletedTask;
 
     public Task SelectRangeAsync(RangeSpec range, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(range);
-        return ApplyAsync("range", Profile.Commands("uut.selectRange", range.FullScale.Amperes), $"selecting the range {range.Name}", null, safeOff: false, cancellationToken);
+        return ApplyAsync("range", Profile.CommandsForRange("uut.selectRange", range.Name, range.FullScale.Amperes), $"selecting the range {range.Name}", null, safeOff: false, cancellationToken);
     }
 }

@@ -36,6 +36,7 @@ public sealed class MessageSession : IAsyncDisposable
     private CancellationTokenRegistration _link;
     private bool _broken;
     private bool _disposed;
+    private long _readyAt;
 
     /// <summary>Creates a session over an open transport; <paramref name="reopen"/>, when given, is used to reconnect after a lost connection or an unrecoverable stale answer.</summary>
     public MessageSession(ITransport transport, SessionOptions? options = null, TransportOpener? reopen = null, TimeProvider? ioTime = null, TrafficTap? traffic = null)
@@ -230,33 +231,57 @@ public sealed class MessageSession : IAsyncDisposable
         }
     }
 
-    /// <summary>Reads the error queue until it reports code 0 (SCPI-99 Vol. 2 §21.8: <c>0,"No error"</c> when empty) and returns the entries, oldest first.</summary>
+    /// <summary>Reads what the instrument reports as errors, oldest first: the SCPI queue until code 0 (SCPI-99 Vol. 2 §21.8: <c>0,"No error"</c> when
+    /// empty), a queue of bare codes until 0, the error bits of a status word read once, or nothing when the instrument cannot be asked.</summary>
     public async ValueTask<IReadOnlyList<InstrumentError>> DrainErrorsAsync(CancellationToken cancellationToken = default)
     {
+        var reporting = Options.Errors;
+        if (!reporting.CanAsk)
+        {
+            return [];
+        }
+
         var errors = new List<InstrumentError>();
         for (var i = 0; i < MaxErrorsDrained; i++)
         {
-            var answer = await QueryAsync(Options.ErrorQuery, null, cancellationToken);
+            var answer = await QueryAsync(reporting.Query, null, cancellationToken);
             InstrumentError entry;
             try
             {
-                entry = ScpiResponse.ParseError(answer);
+                entry = reporting.Mode switch
+                {
+                    ErrorMode.Code => new InstrumentError(ScpiResponse.ParseInteger(answer), string.Empty),
+                    ErrorMode.Status => StatusError(ScpiResponse.ParseInteger(answer), reporting.Mask),
+                    _ => ScpiResponse.ParseError(answer),
+                };
             }
             catch (FormatException ex)
             {
-                throw new InstrumentProtocolException(Resource, $"'{Options.ErrorQuery}' answered {ex.Message}", ex);
+                throw new InstrumentProtocolException(Resource, $"'{reporting.Query}' answered {ex.Message}", ex);
             }
 
-            if (entry.Code == 0)
+            if (entry.Code != 0)
+            {
+                errors.Add(entry);
+                if (reporting.Clear.Length > 0)
+                {
+                    await WriteAsync(reporting.Clear, cancellationToken);
+                }
+            }
+
+            if (entry.Code == 0 || reporting.Mode == ErrorMode.Status)
             {
                 return errors;
             }
-
-            errors.Add(entry);
         }
 
-        throw new InstrumentProtocolException(Resource, $"the error queue did not empty after {MaxErrorsDrained} reads of '{Options.ErrorQuery}' (first: {errors[0]}).");
+        throw new InstrumentProtocolException(Resource, $"the error queue did not empty after {MaxErrorsDrained} reads of '{reporting.Query}' (first: {errors[0]}).");
     }
+
+    private static InstrumentError StatusError(int status, int mask) =>
+        (status & mask) == 0
+            ? new InstrumentError(0, string.Empty)
+            : new InstrumentError(status & mask, string.Create(System.Globalization.CultureInfo.InvariantCulture, $"status word {status} has error bits {status & mask}"));
 
     /// <summary>Sends a command, then drains the error queue and throws <see cref="InstrumentErrorException"/> when the instrument reported any error.</summary>
     public async ValueTask WriteCheckedAsync(string command, CancellationToken cancellationToken = default)
@@ -463,9 +488,23 @@ public sealed class MessageSession : IAsyncDisposable
 
         Encoding.ASCII.GetBytes(command, _out);
         _writeTerminator.CopyTo(_out, command.Length);
+        if (!Options.Pacing.IsNone)
+        {
+            // The instrument hears nothing while it is still busy with the previous command (its processing time, or the profile's gap).
+            var wait = _readyAt - _ioTime.GetTimestamp();
+            if (wait > 0)
+            {
+                await Task.Delay(TimeSpan.FromSeconds((double)wait / _ioTime.TimestampFrequency), _ioTime, token);
+            }
+        }
+
         try
         {
             await _transport!.WriteAsync(_out.AsMemory(0, size), token);
+            if (!Options.Pacing.IsNone)
+            {
+                _readyAt = _ioTime.GetTimestamp() + (long)(Options.Pacing.After(command).TotalSeconds * _ioTime.TimestampFrequency);
+            }
         }
         catch (Exception ex) when (ex is IOException or SocketException or ObjectDisposedException)
         {

@@ -15,8 +15,11 @@ public sealed record SessionOptions
     /// <summary>Commands sent after the session had to resynchronise (late answers discarded or the connection reopened); the default value is none.</summary>
     public IReadOnlyList<string> ClearCommands { get; init; } = [];
 
-    /// <summary>The query that reads one error-queue entry; the default value is <c>SYST:ERR?</c> (SCPI-99 Vol. 2 §21.8).</summary>
-    public string ErrorQuery { get; init; } = "SYST:ERR?";
+    /// <summary>How the instrument reports errors; the default value is the SCPI-99 error queue <c>SYST:ERR?</c> (SCPI-99 Vol. 2 §21.8).</summary>
+    public ErrorReporting Errors { get; init; } = ErrorReporting.Scpi;
+
+    /// <summary>How long the instrument needs after each command before the next; the default value is no wait.</summary>
+    public CommandPacing Pacing { get; init; } = CommandPacing.None;
 
     /// <summary>The largest response accepted, in bytes; the default value is 16 MiB.</summary>
     public int MaxResponseBytes { get; init; } = 16 * 1024 * 1024;

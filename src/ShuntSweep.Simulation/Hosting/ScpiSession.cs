@@ -48,7 +48,7 @@ internal sealed class ScpiSession : IAsyncDisposable
         for (var i = 0; i < data.Length && !_closed; i++)
         {
             var b = data.Span[i];
-            if (b != (byte)'\n')
+            if (b != _instrument.LineEnd)
             {
                 if (_line.Count < MaxLine)
                 {
@@ -64,13 +64,13 @@ internal sealed class ScpiSession : IAsyncDisposable
 
             if (_overrun)
             {
-                _instrument.Scpi.Push(ScpiErrors.InputBufferOverrun);
+                _instrument.Front.Push(ScpiErrors.InputBufferOverrun);
                 _overrun = false;
                 _line.Clear();
                 continue;
             }
 
-            var text = Encoding.Latin1.GetString(_line.ToArray()).TrimEnd('\r');
+            var text = Encoding.Latin1.GetString(_line.ToArray()).TrimEnd('\r', '\n');
             _line.Clear();
             await HandleAsync(text, cancellationToken);
         }
@@ -144,10 +144,10 @@ internal sealed class ScpiSession : IAsyncDisposable
             return;
         }
 
-        var response = await _instrument.Scpi.ExecuteAsync(text, cancellationToken);
+        var response = await _instrument.Front.ExecuteAsync(text, cancellationToken);
         if (response is not null)
         {
-            var reply = Encoding.ASCII.GetBytes(response + "\n");
+            var reply = Encoding.ASCII.GetBytes(response + _instrument.ReplyEnd);
             if (Interlocked.Add(ref _pending, reply.Length) > MaxPendingBytes)
             {
                 _closed = true;
@@ -190,8 +190,16 @@ internal sealed class ScpiSession : IAsyncDisposable
     }
 }
 
-/// <summary>A served instrument: its SCPI front, the faults that watch it, and its command counter.</summary>
-internal sealed class SimulatedInstrument(string name, ScpiInstrument scpi, IReadOnlyList<IFault> faults, Func<int, FaultContext> context)
+/// <summary>A served instrument: its SCPI front, the front connections talk to (SCPI, or a profile's dialect), its terminators, the faults that
+/// watch it, and its command counter.</summary>
+internal sealed class SimulatedInstrument(
+    string name,
+    ScpiInstrument scpi,
+    IReadOnlyList<IFault> faults,
+    Func<int, FaultContext> context,
+    IInstrumentFront? front = null,
+    string lineEnd = "\n",
+    string replyEnd = "\n")
 {
     private int _commands;
 
@@ -200,6 +208,15 @@ internal sealed class SimulatedInstrument(string name, ScpiInstrument scpi, IRea
 
     /// <summary>The SCPI front.</summary>
     public ScpiInstrument Scpi { get; } = scpi;
+
+    /// <summary>What connections talk to: the SCPI front, or a dialect front over it.</summary>
+    public IInstrumentFront Front { get; } = front ?? scpi;
+
+    /// <summary>The byte that ends a program message (the last byte of the instrument's input terminator).</summary>
+    public byte LineEnd { get; } = (byte)lineEnd[^1];
+
+    /// <summary>What ends each response.</summary>
+    public string ReplyEnd { get; } = replyEnd;
 
     /// <summary>The faults that watch this instrument.</summary>
     public IReadOnlyList<IFault> Faults { get; } = faults;

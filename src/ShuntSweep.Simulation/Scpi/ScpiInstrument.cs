@@ -4,7 +4,7 @@ namespace ShuntSweep.Simulation.Scpi;
 
 /// <summary>A simulated instrument's SCPI front: common commands, status registers and error queue (IEEE 488.2 §10, §11), and its own command set.</summary>
 /// <remarks>Thread-safe: lines are executed one at a time per instrument, whichever connection they come from.</remarks>
-internal sealed class ScpiInstrument : IDisposable
+internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
 {
     /// <summary>The error queue depth; on overflow the newest entry becomes -350 (SCPI-99 vol. 2 §21.8.2).</summary>
     public const int QueueCapacity = 20;

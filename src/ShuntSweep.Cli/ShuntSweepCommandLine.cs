@@ -31,6 +31,7 @@ internal static class ShuntSweepCommandLine
             CompareCommand.Create(),
             OverlayCommand.Create(),
             ProbeCommand.Create(),
+            CheckProfileCommand.Create(),
             SimCommand.Create(),
         };
 

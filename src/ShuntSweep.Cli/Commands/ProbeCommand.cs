@@ -12,7 +12,7 @@ using Spectre.Console;
 
 namespace ShuntSweep.Cli.Commands;
 
-/// <summary><c>shuntsweep probe</c>: who answers at each resource, what is in its error queue, and how long a round trip takes.</summary>
+/// <summary><c>shuntsweep probe</c>: who answers at each resource, whether every read-only query of its profile is understood, what it reports as errors, and how long a round trip takes.</summary>
 internal static class ProbeCommand
 {
     public static Command Create()
@@ -22,38 +22,50 @@ internal static class ProbeCommand
             Description = "Resource strings to probe, e.g. TCPIP::192.0.2.10::5025::SOCKET or ASRL/dev/ttyUSB0::INSTR.",
             Arity = ArgumentArity.ZeroOrMore,
         };
-        var benchOpt = new Option<string?>("--bench") { Description = "Probe every instrument of this bench file, with its settings." };
+        var benchOpt = new Option<string?>("--bench") { Description = "Probe every instrument of this bench file, with its settings and profile." };
+        var profileOpt = new Option<string?>("--profile") { Description = "Probe the resources given on the command line with this profile (a file, or scpi-99)." };
+        var roleOpt = new Option<string?>("--role") { Description = "The profile section whose read-only queries to try on those resources: supply, load, voltmeter, uut or reference." };
         var countOpt = new Option<int>("--count") { Description = "Identity queries per instrument; the round trip is reported as median and 95th percentile.", DefaultValueFactory = _ => 1 };
         var timeoutOpt = new Option<double>("--timeout") { Description = "Seconds to wait for each answer (resources given on the command line).", DefaultValueFactory = _ => 2 };
         var trafficOpt = new Option<string?>("--traffic") { Description = "Write every command and response to this JSON-lines file." };
-        var command = new Command("probe", "Ask instruments who they are, read their error queues and time the round trip.")
+        var command = new Command("probe", "Ask instruments who they are, try every read-only query of their profiles, read their errors and time the round trip; never turns an output on.")
         {
-            resourcesArg, benchOpt, countOpt, timeoutOpt, trafficOpt,
+            resourcesArg, benchOpt, profileOpt, roleOpt, countOpt, timeoutOpt, trafficOpt,
         };
         command.SetAction((parse, ct) => Terminal.GuardAsync(() => RunAsync(
-            parse.GetValue(resourcesArg) ?? [],
-            parse.GetValue(benchOpt),
-            parse.GetValue(countOpt),
-            parse.GetValue(timeoutOpt),
-            parse.GetValue(trafficOpt),
+            new Request(
+                parse.GetValue(resourcesArg) ?? [],
+                parse.GetValue(benchOpt),
+                parse.GetValue(profileOpt),
+                parse.GetValue(roleOpt),
+                parse.GetValue(countOpt),
+                parse.GetValue(timeoutOpt),
+                parse.GetValue(trafficOpt)),
             ct)));
         return command;
     }
 
-    private static async Task<int> RunAsync(string[] resources, string? benchPath, int count, double timeout, string? trafficPath, CancellationToken ct)
+    private static async Task<int> RunAsync(Request request, CancellationToken ct)
     {
-        if (count < 1)
+        if (request.Count < 1)
         {
-            return Terminal.Fail($"--count must be at least 1, not {count}.", ExitCodes.InvalidInput);
+            return Terminal.Fail($"--count must be at least 1, not {request.Count}.", ExitCodes.InvalidInput);
         }
 
-        if (timeout is <= 0 or > 3600)
+        if (request.Timeout is <= 0 or > 3600)
         {
-            return Terminal.Fail($"--timeout must be between 0 and 3600 s, not {timeout}.", ExitCodes.InvalidInput);
+            return Terminal.Fail($"--timeout must be between 0 and 3600 s, not {request.Timeout}.", ExitCodes.InvalidInput);
         }
 
+        string[] sections = ["supply", "load", "voltmeter", "uut", "reference"];
+        if (request.Role is { } role && !sections.Contains(role))
+        {
+            return Terminal.Fail($"--role: '{role}' is not one of {string.Join(", ", sections)}.", ExitCodes.InvalidInput);
+        }
+
+        var given = request.Profile is null ? InstrumentProfile.Default : InstrumentProfile.Load(request.Profile, Directory.GetCurrentDirectory());
         var targets = new List<Target>();
-        foreach (var text in resources)
+        foreach (var text in request.Resources)
         {
             var address = ResourceAddress.Parse(text);
             if (address is SimulatedAddress)
@@ -61,24 +73,26 @@ internal static class ProbeCommand
                 return Terminal.Fail($"{text}: simulated instruments live inside a bench; probe them with --bench BENCH.", ExitCodes.InvalidInput);
             }
 
-            targets.Add(new Target(text, address, DriverSettings.Default with { Session = new SessionOptions { Timeout = TimeSpan.FromSeconds(timeout) } }, InstrumentProfile.Default));
+            var session = new SessionOptions { Timeout = TimeSpan.FromSeconds(request.Timeout) };
+            targets.Add(new Target(text, address, DriverSettings.Default with { Session = session }, given, request.Role));
         }
 
         SimulatedBench? simulator = null;
-        if (benchPath is not null)
+        if (request.Bench is not null)
         {
-            var bench = BenchReader.Load(BenchHost.Locate(benchPath));
+            var bench = BenchReader.Load(BenchHost.Locate(request.Bench));
             var baseDirectory = Path.GetDirectoryName(Path.GetFullPath(bench.File));
             foreach (var entry in bench.Instruments.Values.OrderBy(e => e.Role))
             {
                 var settings = DriverSettings.Read(entry.Settings, baseDirectory, entry.Role);
                 if (settings.TypedByOperator || settings.StreamedReading is not null)
                 {
-                    AnsiConsole.MarkupLineInterpolated($"{BenchReader.KeyOf(entry.Role)}: not probed (its reading is typed by the operator or sent as a display stream; it has no *IDN?).");
+                    AnsiConsole.MarkupLineInterpolated($"{BenchReader.KeyOf(entry.Role)}: not probed (its reading is typed by the operator or sent as a display stream; it has no identity query).");
                     continue;
                 }
 
-                targets.Add(new Target($"{BenchReader.KeyOf(entry.Role)} {entry.Resource}", ResourceAddress.Parse(entry.Resource), settings, InstrumentProfile.Load(settings.Profile, baseDirectory)));
+                var section = ProfileRequirements.SectionOf(entry.Role, settings.Shunt is not null);
+                targets.Add(new Target($"{BenchReader.KeyOf(entry.Role)} {entry.Resource}", ResourceAddress.Parse(entry.Resource), settings, InstrumentProfile.Load(settings.Profile, baseDirectory), section));
             }
 
             if (bench.Instruments.Values.Any(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase)))
@@ -92,18 +106,18 @@ internal static class ProbeCommand
             return Terminal.Fail("nothing to probe: give resource strings or --bench BENCH.", ExitCodes.InvalidInput);
         }
 
-        using var traffic = trafficPath is null ? null : TrafficLog.Create(trafficPath, TimeProvider.System, TimeProvider.System.GetUtcNow());
+        using var traffic = request.Traffic is null ? null : TrafficLog.Create(request.Traffic, TimeProvider.System, TimeProvider.System.GetUtcNow());
         try
         {
-            var results = await Task.WhenAll(targets.Select(t => ProbeAsync(t, count, simulator is null ? null : simulator.Connect, traffic, ct)));
-            Show(results, count);
-            var answered = results.Count(r => r.Identity is not null);
+            var results = await Task.WhenAll(targets.Select(t => ProbeAsync(t, request.Count, simulator is null ? null : simulator.Connect, traffic, ct)));
+            Show(results, request.Count);
+            var answered = results.Count(r => r.Report is not null);
             if (answered == 0)
             {
                 return Terminal.Fail($"nothing answered ({results.Length} resource(s) probed); check the cabling, the address and the termination.", ExitCodes.InstrumentFailure);
             }
 
-            return answered == results.Length ? ExitCodes.Success : ExitCodes.InstrumentFailure;
+            return results.All(r => r.Report is { AllUnderstood: true }) ? ExitCodes.Success : ExitCodes.InstrumentFailure;
         }
         finally
         {
@@ -120,48 +134,57 @@ internal static class ProbeCommand
         try
         {
             await using var session = await BenchConnector.OpenSessionAsync(target.Address, target.Settings, target.Profile, simulated, time, traffic?.For("probe", target.Address.Text), null, ct);
-            var identify = target.Profile.Query("common.identify");
-            var trips = new double[count];
-            string answer = string.Empty;
-            for (var i = 0; i < count; i++)
-            {
-                var started = time.GetTimestamp();
-                answer = await session.QueryAsync(identify, null, ct);
-                trips[i] = time.GetElapsedTime(started).TotalMilliseconds;
-            }
-
-            var identity = ScpiResponse.ParseIdentity(answer);
-            var errors = await session.DrainErrorsAsync(ct);
-            return new Result(target.Label, identity.ToString(), errors, trips, null);
+            return new Result(target, await ProfileProbe.RunAsync(session, target.Profile, target.Section, count, time, ct), null);
         }
         catch (InstrumentException ex)
         {
-            return new Result(target.Label, null, [], [], ex.Problem);
-        }
-        catch (FormatException ex)
-        {
-            return new Result(target.Label, null, [], [], ex.Message);
+            return new Result(target, null, ex.Problem);
         }
     }
 
     private static void Show(IReadOnlyList<Result> results, int count)
     {
-        var table = new Table().AddColumns("resource", "identity", "error queue", count > 1 ? $"round trip, median / 95th pct of {count}" : "round trip");
+        var table = new Table().AddColumns("resource", "profile", "identity", "errors", count > 1 ? $"round trip, median / 95th pct of {count}" : "round trip");
         foreach (var r in results)
         {
-            var trip = r.RoundTrips.Length == 0
+            var report = r.Report;
+            var trips = report?.RoundTrips ?? [];
+            var trip = trips.Length == 0
                 ? "-"
                 : count > 1
-                    ? $"{Median(r.RoundTrips):0.000} ms / {Percentile95(r.RoundTrips):0.000} ms"
-                    : $"{r.RoundTrips[0]:0.000} ms";
-            table.AddRow(
-                Markup.Escape(r.Label),
-                r.Identity is null ? $"[red]{Markup.Escape(r.Failure ?? "no answer")}[/]" : Markup.Escape(r.Identity),
-                r.Identity is null ? "-" : r.Errors.Count == 0 ? "empty" : Markup.Escape(string.Join("; ", r.Errors)),
-                trip);
+                    ? $"{Median(trips):0.000} ms / {Percentile95(trips):0.000} ms"
+                    : $"{trips[0]:0.000} ms";
+            var identity = report is null
+                ? $"[red]{Markup.Escape(r.Failure ?? "no answer")}[/]"
+                : report.IdentityProblem is { } problem ? $"[red]{Markup.Escape(problem)}[/]" : Markup.Escape(report.Identity!.ToString());
+            var errors = report is null ? "-"
+                : !r.Target.Profile.Errors.CanAsk ? "not reported (errors: none)"
+                : report.Errors.Count == 0 ? "none" : Markup.Escape(string.Join("; ", report.Errors));
+            table.AddRow(Markup.Escape(r.Target.Label), Markup.Escape(r.Target.Profile.Name), identity, errors, trip);
         }
 
         AnsiConsole.Write(table);
+        var queries = results.Where(r => r.Report is { Queries.Count: > 0 }).ToList();
+        if (queries.Count == 0)
+        {
+            return;
+        }
+
+        var detail = new Table().AddColumns("resource", "operation", "sent", "answer", "read as");
+        foreach (var r in queries)
+        {
+            foreach (var q in r.Report!.Queries)
+            {
+                detail.AddRow(
+                    Markup.Escape(r.Target.Label),
+                    Markup.Escape(q.Operation),
+                    Markup.Escape(q.Command),
+                    q.Answer is null ? "-" : Markup.Escape(q.Answer),
+                    q.Problem is { } p ? $"[red]{Markup.Escape(p)}[/]" : Markup.Escape(q.Reading ?? string.Empty));
+            }
+        }
+
+        AnsiConsole.Write(detail);
     }
 
     /// <summary>The median (mean of the middle two for an even count).</summary>
@@ -180,10 +203,12 @@ internal static class ProbeCommand
         return sorted[Math.Clamp(rank, 1, sorted.Length) - 1];
     }
 
-    private sealed record Target(string Label, ResourceAddress Address, DriverSettings Settings, InstrumentProfile Profile);
+    private sealed record Request(string[] Resources, string? Bench, string? Profile, string? Role, int Count, double Timeout, string? Traffic);
 
-    private sealed record Result(string Label, string? Identity, IReadOnlyList<InstrumentError> Errors, double[] RoundTrips, string? Failure)
+    private sealed record Target(string Label, ResourceAddress Address, DriverSettings Settings, InstrumentProfile Profile, string? Section);
+
+    private sealed record Result(Target Target, ProbeReport? Report, string? Failure)
     {
-        public override string ToString() => string.Create(CultureInfo.InvariantCulture, $"{Label}: {Identity ?? Failure}");
+        public override string ToString() => string.Create(CultureInfo.InvariantCulture, $"{Target.Label}: {(Report?.Identity?.ToString() ?? Failure)}");
     }
 }

@@ -128,6 +128,8 @@ internal static class RunCommand
         benchPath ??= sequence.Bench;
         var benchFile = BenchHost.Locate(benchPath);
         var bench = BenchReader.Load(benchFile);
+        // Every instrument's profile must have what its role needs before anything is shown, asked or switched.
+        ShuntSweep.Instruments.BenchConnector.Validate(bench);
         var plan = Planner.Plan(sequence, bench);
         if (!PlanCommand.Show(sequence, bench, plan, brief: true))
         {

@@ -35,8 +35,9 @@ public sealed record ErrorReporting(ErrorMode Mode, string Query, int Mask = 0, 
 
 /// <summary>How fast commands may follow each other: a gap after every command and, per command, a processing time during which the instrument hears nothing.</summary>
 /// <param name="Gap">The least time between the end of one command and the start of the next.</param>
-/// <param name="Processing">Per command header (the text before its first space or placeholder), how long the instrument is busy after it.</param>
-public sealed record CommandPacing(TimeSpan Gap, IReadOnlyList<(string Header, TimeSpan Busy)> Processing)
+/// <param name="Processing">Per command header (the text before its first space or placeholder; open when a placeholder follows it directly,
+/// as in <c>R{code}</c>, so that any text may follow), how long the instrument is busy after it.</param>
+public sealed record CommandPacing(TimeSpan Gap, IReadOnlyList<(string Header, bool Open, TimeSpan Busy)> Processing)
 {
     /// <summary>No pacing: commands go out as fast as the link carries them.</summary>
     public static CommandPacing None { get; } = new(TimeSpan.Zero, []);
@@ -49,10 +50,10 @@ public sealed record CommandPacing(TimeSpan Gap, IReadOnlyList<(string Header, T
     {
         ArgumentNullException.ThrowIfNull(command);
         var wait = Gap;
-        foreach (var (header, busy) in Processing)
+        foreach (var (header, open, busy) in Processing)
         {
             if (busy > wait && command.StartsWith(header, StringComparison.OrdinalIgnoreCase)
-                && (command.Length == header.Length || !char.IsAsciiLetterOrDigit(command[header.Length]) || !char.IsAsciiLetterOrDigit(header[^1])))
+                && (open || command.Length == header.Length || !char.IsAsciiLetterOrDigit(command[header.Length]) || !char.IsAsciiLetterOrDigit(header[^1])))
             {
                 wait = busy;
             }

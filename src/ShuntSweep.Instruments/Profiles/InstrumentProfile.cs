@@ -65,7 +65,7 @@ public sealed class InstrumentProfile
             InterCommandDelay,
             operations.Values
                 .Where(o => o.ProcessingTime > TimeSpan.Zero)
-                .SelectMany(o => o.Templates.Select(t => (Header(t), o.ProcessingTime)))
+                .SelectMany(o => o.Templates.Select(t => (Header(t), Open: t.Length > Header(t).Length && t[Header(t).Length] == '{', o.ProcessingTime)))
                 .Where(h => h.Item1.Length > 0)
                 .ToList());
     }

@@ -38,6 +38,13 @@ public static class ServedBenchFile
                 {
                     map.Children[new YamlScalarNode("resource")] = new YamlScalarNode(tcp);
                 }
+
+                // A profile file is named relative to the bench file; the written file may live elsewhere.
+                if (settings is YamlMappingNode m && m.Children.TryGetValue(new YamlScalarNode("profile"), out var profile)
+                    && profile is YamlScalarNode { Value: { } p } && p.EndsWith(".yaml", StringComparison.OrdinalIgnoreCase) && !Path.IsPathRooted(p))
+                {
+                    m.Children[new YamlScalarNode("profile")] = new YamlScalarNode(Path.GetFullPath(Path.Combine(Path.GetDirectoryName(Path.GetFullPath(sourceBench)) ?? ".", p)));
+                }
             }
         }
 

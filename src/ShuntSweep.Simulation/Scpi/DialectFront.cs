@@ -129,6 +129,12 @@ internal sealed class DialectFront : IInstrumentFront
             return null; // A word the dialect needs and SCPI does not (a mode selection that is implied): accepted.
         }
 
+        if (op.Key.EndsWith(".fetch", StringComparison.Ordinal) && !_dialect.Supports(_section + ".arm"))
+        {
+            // A polled instrument measures when it is asked.
+            commands.InsertRange(0, InstrumentProfile.Default.Commands(_section + ".arm"));
+        }
+
         string? answer = null;
         foreach (var c in commands)
         {

@@ -152,6 +152,10 @@ public sealed class SimulatedBench : IAsyncDisposable
         return (new Current(r.CurrentAt(x)), new Voltage(Jack(x)), r.NoiselessDisplay(r.FrontEnd.Sensed(x)));
     });
 
+    /// <summary>Whether the supply's output and the load's input are on, as the simulated instruments are (ground truth for safe-off checks,
+    /// whatever dialect they are served in).</summary>
+    public (bool SupplyOn, bool LoadOn) OutputStates() => _circuit.At(c => (c.SupplyOn, c.LoadOn));
+
     /// <summary>The true voltage across the UUT's jacks and current through them at the clock's present.</summary>
     public (Voltage Drop, Current Current) Truth()
     {

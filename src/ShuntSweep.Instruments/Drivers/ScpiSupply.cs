@@ -22,14 +22,18 @@ internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profi
             cancellationToken);
     }
 
-    public Task SetCurrentLimitAsync(Current limit, CancellationToken cancellationToken = default) =>
-        ApplyAsync(
+    /// <remarks>A profile whose number format has fewer decimals than the limit sends the limit rounded down, never up.</remarks>
+    public Task SetCurrentLimitAsync(Current limit, CancellationToken cancellationToken = default)
+    {
+        var amperes = Profile.Supports("supply.setCurrentLimit") ? Profile.Operation("supply.setCurrentLimit").TowardZero(limit.Amperes) : limit.Amperes;
+        return ApplyAsync(
             "current limit",
-            Profile.Commands("supply.setCurrentLimit", limit.Amperes),
+            Profile.Commands("supply.setCurrentLimit", amperes),
             $"setting the current limit to {limit}",
-            VerifyNumber("supply.queryCurrentLimit", limit.Amperes),
+            VerifyNumber("supply.queryCurrentLimit", amperes, "supply.setCurrentLimit"),
             safeOff: false,
             cancellationToken);
+    }
 
     public async Task<Current?> ReadCurrentLimitAsync(CancellationToken cancellationToken = default) =>
         Profile.Supports("supply.queryCurrentLimit")
@@ -45,9 +49,9 @@ internal sealed class ScpiSupply(MessageSession session, InstrumentProfile profi
 
         await ApplyAsync(
             "over-voltage protection",
-            Profile.Commands("supply.setOverVoltage", level.Volts),
+            Profile.Commands("supply.setOverVoltage", Profile.Operation("supply.setOverVoltage").TowardZero(level.Volts)),
             $"setting the over-voltage protection to {level}",
-            VerifyNumber("supply.queryOverVoltage", level.Volts),
+            VerifyNumber("supply.queryOverVoltage", Profile.Operation("supply.setOverVoltage").TowardZero(level.Volts), "supply.setOverVoltage"),
             safeOff: false,
             cancellationToken);
         return true;

@@ -75,6 +75,25 @@ public sealed class ProfileOperation
         return Number.Format(value / UnitFactor);
     }
 
+    /// <summary>The largest value not above <paramref name="si"/> in magnitude that the number format writes exactly: a protection limit must never
+    /// be rounded up by a format with few decimals (a 52.8 mA limit sent with 3 decimals in A is 0.052, not 0.053).</summary>
+    public double TowardZero(double si)
+    {
+        var decimals = Number.Kind switch
+        {
+            NumberFormat.NumberStyleKind.Fixed => Number.Digits,
+            NumberFormat.NumberStyleKind.Significant when si != 0 => Number.Digits - 1 - (int)Math.Floor(Math.Log10(Math.Abs(si / UnitFactor))),
+            _ => (int?)null,
+        };
+        if (decimals is not { } d || !double.IsFinite(si))
+        {
+            return si;
+        }
+
+        var step = Math.Pow(10, -d) * UnitFactor;
+        return Math.Sign(si) * Math.Floor((Math.Abs(si) / step) + 1e-9) * step;
+    }
+
     /// <summary>The SI value (or NPLC) a number written into <c>{value}</c> stands for: the inverse of <see cref="FormatValue"/> (for the simulator).</summary>
     public double ReadValue(string text, double lineFrequency)
     {

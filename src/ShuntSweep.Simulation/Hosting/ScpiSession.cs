@@ -43,7 +43,14 @@ internal sealed class ScpiSession : IAsyncDisposable
     public bool IsClosed => _closed;
 
     /// <summary>Takes bytes from the client and executes every message they complete; false once the connection is dropped.</summary>
-    public async ValueTask<bool> AcceptAsync(ReadOnlyMemory<byte> data, CancellationToken cancellationToken)
+    public ValueTask<bool> AcceptAsync(ReadOnlyMemory<byte> data, CancellationToken cancellationToken)
+    {
+        var now = TimeProvider.System.GetTimestamp();
+        return AcceptAtAsync(data, now, now, cancellationToken);
+    }
+
+    /// <summary>Takes bytes that arrived between the wall-clock timestamps <paramref name="earliest"/> (when the read began) and <paramref name="latest"/>.</summary>
+    private async ValueTask<bool> AcceptAtAsync(ReadOnlyMemory<byte> data, long earliest, long latest, CancellationToken cancellationToken)
     {
         for (var i = 0; i < data.Length && !_closed; i++)
         {
@@ -72,7 +79,7 @@ internal sealed class ScpiSession : IAsyncDisposable
 
             var text = Encoding.Latin1.GetString(_line.ToArray()).TrimEnd('\r', '\n');
             _line.Clear();
-            await HandleAsync(text, cancellationToken);
+            await HandleAsync(text, earliest, latest, cancellationToken);
         }
 
         return !_closed;
@@ -86,8 +93,9 @@ internal sealed class ScpiSession : IAsyncDisposable
         {
             while (!_closed)
             {
+                var reading = TimeProvider.System.GetTimestamp();
                 var n = await input.ReadAsync(buffer, _stop.Token);
-                if (n == 0 || !await AcceptAsync(buffer.AsMemory(0, n), _stop.Token))
+                if (n == 0 || !await AcceptAtAsync(buffer.AsMemory(0, n), reading, TimeProvider.System.GetTimestamp(), _stop.Token))
                 {
                     return;
                 }
@@ -112,7 +120,7 @@ internal sealed class ScpiSession : IAsyncDisposable
         _stop.Dispose();
     }
 
-    private async Task HandleAsync(string text, CancellationToken cancellationToken)
+    private async Task HandleAsync(string text, long earliest, long latest, CancellationToken cancellationToken)
     {
         if (_instrument.IsHung)
         {
@@ -144,7 +152,7 @@ internal sealed class ScpiSession : IAsyncDisposable
             return;
         }
 
-        var response = await _instrument.Front.ExecuteAsync(text, cancellationToken);
+        var response = await _instrument.Front.ExecuteAsync(text, earliest, latest, cancellationToken);
         if (response is not null)
         {
             var reply = Encoding.ASCII.GetBytes(response + _instrument.ReplyEnd);

@@ -16,8 +16,8 @@ namespace ShuntSweep.Simulation.Scpi;
 /// </remarks>
 internal sealed class DialectFront : IInstrumentFront
 {
-    /// <summary>The share of a processing time the front enforces; the rest absorbs the link's jitter.</summary>
-    private const double Strictness = 0.5;
+    /// <summary>The share of a processing time the front enforces; the rest absorbs timer and link jitter.</summary>
+    private const double Strictness = 0.8;
 
     private readonly InstrumentProfile _dialect;
     private readonly string _section;
@@ -26,7 +26,8 @@ internal sealed class DialectFront : IInstrumentFront
     private readonly IReadOnlyDictionary<string, double> _fullScales;
     private readonly TimeProvider _wall;
     private readonly List<(Regex Pattern, ProfileOperation Operation, int Index)> _matchers = [];
-    private long _busyUntil;
+    private long _heardAt;
+    private double _busySeconds;
 
     /// <summary>Creates the front of <paramref name="scpi"/> for the profile section <paramref name="section"/> of <paramref name="dialect"/>.</summary>
     /// <param name="dialect">The profile whose dialect is spoken.</param>
@@ -61,10 +62,19 @@ internal sealed class DialectFront : IInstrumentFront
     public void Push(int code, string? detail = null) => _scpi.Push(code, detail);
 
     /// <inheritdoc />
-    public async ValueTask<string?> ExecuteAsync(string line, CancellationToken cancellationToken)
+    public ValueTask<string?> ExecuteAsync(string line, CancellationToken cancellationToken)
     {
         var now = _wall.GetTimestamp();
-        if (now < Interlocked.Read(ref _busyUntil))
+        return ExecuteAsync(line, now, now, cancellationToken);
+    }
+
+    /// <inheritdoc />
+    /// <remarks>A line is lost only when it certainly came too soon: even its latest possible arrival is within the processing time of the
+    /// earliest possible arrival of the command before it.</remarks>
+    public async ValueTask<string?> ExecuteAsync(string line, long earliest, long latest, CancellationToken cancellationToken)
+    {
+        var now = earliest;
+        if (_busySeconds > 0 && latest - _heardAt < (long)(_busySeconds * Strictness * _wall.TimestampFrequency))
         {
             _scpi.Push(ScpiErrors.ExecutionError, $"'{line}' arrived while the instrument was busy");
             return null;
@@ -84,13 +94,12 @@ internal sealed class DialectFront : IInstrumentFront
                 continue;
             }
 
-            var answer = await RunAsync(op, index, m, cancellationToken);
-            Hold(op);
-            return answer;
+            Hold(op, now);
+            return await RunAsync(op, index, m, cancellationToken);
         }
 
         _scpi.Push(ScpiErrors.UndefinedHeader, text);
-        Hold(null);
+        Hold(null, now);
         return null;
     }
 
@@ -252,13 +261,11 @@ internal sealed class DialectFront : IInstrumentFront
         return any ? mask & -mask : 0;
     }
 
-    private void Hold(ProfileOperation? op)
+    /// <summary>Keeps the instrument deaf for its processing time from the moment <paramref name="arrived"/> the command arrived, as the tool counts it from sending.</summary>
+    private void Hold(ProfileOperation? op, long arrived)
     {
-        var busy = Math.Max(_dialect.InterCommandDelay.TotalSeconds, op?.ProcessingTime.TotalSeconds ?? 0) * Strictness;
-        if (busy > 0)
-        {
-            Interlocked.Exchange(ref _busyUntil, _wall.GetTimestamp() + (long)(busy * _wall.TimestampFrequency));
-        }
+        _heardAt = arrived;
+        _busySeconds = Math.Max(_dialect.InterCommandDelay.TotalSeconds, op?.ProcessingTime.TotalSeconds ?? 0);
     }
 
     private static bool IsBooleanSetting(string key) => key is "supply.setOutput" or "load.setInput" or "voltmeter.setAutoZero";

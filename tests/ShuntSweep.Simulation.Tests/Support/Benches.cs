@@ -10,7 +10,11 @@ internal static class Benches
 
     public static string Handheld => Path.Combine(Root, "simulators", "handheld-tarnwell-tw18.yaml");
 
-    public static IEnumerable<string> All => Directory.GetFiles(Path.Combine(Root, "simulators"), "*.yaml").Order(StringComparer.Ordinal);
+    /// <summary>Every simulated bench whose instruments speak SCPI-99; benches whose entries name a profile speak its dialect and are
+    /// tested through their profiles (ShuntSweep.Engine.Tests DialectBenchTests).</summary>
+    public static IEnumerable<string> All => Directory.GetFiles(Path.Combine(Root, "simulators"), "*.yaml")
+        .Where(f => !File.ReadLines(f).Any(l => l.Contains("profile:", StringComparison.Ordinal) && !l.TrimStart().StartsWith('#')))
+        .Order(StringComparer.Ordinal);
 
     public static (SimulatedBench Bench, VirtualBenchClock Clock) Create(string path, int seed = 1)
     {

@@ -66,8 +66,8 @@ public sealed class DialectBenchTests
         {
             // The BM-5 takes range numbers: 40mA is R3, 10A is R5 (profiles/brannock-bm5.yaml).
             var sent = await File.ReadAllTextAsync(traffic, TestContext.Current.CancellationToken);
-            Assert.Contains("\"tx R3\"", sent.Replace("\"Text\":\"", "\"tx ", StringComparison.Ordinal), StringComparison.Ordinal);
-            Assert.Contains("\"tx R5\"", sent.Replace("\"Text\":\"", "\"tx ", StringComparison.Ordinal), StringComparison.Ordinal);
+            Assert.Contains("\"tx\":\"R3\"", sent, StringComparison.Ordinal);
+            Assert.Contains("\"tx\":\"R5\"", sent, StringComparison.Ordinal);
         }
     }
 
@@ -153,7 +153,7 @@ public sealed class DialectBenchTests
             var clock = new RealBenchClock(TimeProvider.System);
             var dir = Some.TempDirectory();
             RunOutcome outcome;
-            using var traffic = trafficFile is null ? null : TrafficLog.Create(trafficFile);
+            using var traffic = trafficFile is null ? null : TrafficLog.Create(trafficFile, TimeProvider.System, TimeProvider.System.GetUtcNow());
             await using (var instruments = await BenchConnector.ConnectAsync(bench, clock, null, traffic, limited.Token))
             {
                 using var journal = RunJournal.Create(dir, clock.Time, clock.Now());

@@ -41,4 +41,8 @@ public sealed record AnalysisOptions
     /// <summary>The temperature coefficient assumed for the fuse element, 1/K, to turn the heating coefficient into a thermal resistance.
     /// The default value is 0.0038 (silver near 20 °C, handbook).</summary>
     public double FuseTemperatureCoefficient { get; init; } = 0.0038;
+
+    /// <summary>The steps whose drop had not settled when their maximum wait ran out (from the run's <c>not-settled</c> events): their points are
+    /// flagged in the result. The default value is none.</summary>
+    public IReadOnlySet<int> UnsettledSteps { get; init; } = new HashSet<int>();
 }

@@ -1,3 +1,4 @@
+using MathNet.Numerics.Distributions;
 using ShuntSweep.Analysis.Fitting;
 using ShuntSweep.Analysis.Models;
 using ShuntSweep.Analysis.Results;
@@ -68,7 +69,7 @@ internal sealed class RangeAnalysis
         var studentised = Diagnostics.StudentisedResiduals(chosen.Residuals, w, chosen.Leverages, chosen.ChiSquare, chosen.DegreesOfFreedom);
         var pointResults = points.Select((p, i) => new PointResult(
             p.Step, p.Samples, p.SetpointA, p.CurrentA, p.DropVolts, p.DropStdDevVolts, p.DropUncertaintyVolts, p.ReadingA,
-            chosen.Residuals[i], studentised[i], Math.Abs(studentised[i]) > options.OutlierThreshold)).ToList();
+            chosen.Residuals[i], studentised[i], Math.Abs(studentised[i]) > options.OutlierThreshold, options.UnsettledSteps.Contains(p.Step))).ToList();
 
         var parameters = chosen.Model.Parameters.Select((mp, j) => new ParameterResult(mp.Name, mp.Unit, chosen.Parameters[j], Math.Sqrt(chosen.Covariance[j, j]), mp.Meaning)).ToList();
         var readingError = spec is null ? null : ReadingErrors(points, spec, options);
@@ -107,7 +108,8 @@ internal sealed class RangeAnalysis
             spec?.Resolution.Amperes ?? double.NaN,
             spec?.Accuracy.FractionOfReading ?? double.NaN,
             spec?.Accuracy.Counts ?? 0,
-            warnings.Count > 0 ? warnings : null);
+            warnings.Count > 0 ? warnings : null,
+            JudgeBurden(spec, chosen, fullScale, data.MaxAbsCurrent, points, options));
         return new RangeAnalysis(result, data, fits, chosen);
     }
 
@@ -193,6 +195,66 @@ internal sealed class RangeAnalysis
         }
 
         return (Math.Sqrt(sr), Math.Sqrt(so));
+    }
+
+    /// <summary>Judges the burden against the specification: the chosen model's drop at full scale (its uncertainty from the fit's covariance,
+    /// u² = gᵀ·C·g with g the model's parameter gradient there) against the specified maximum, and each point's mean drop against the limit curve.</summary>
+    private static BurdenCheck? JudgeBurden(RangeSpec? spec, CandidateFit chosen, double fullScale, double fittedUpTo, IReadOnlyList<MeasuredPoint> points, AnalysisOptions options)
+    {
+        if (spec is null || (spec.BurdenAtFullScale is null && spec.BurdenLimit is null))
+        {
+            return null;
+        }
+
+        var k = Normal.InvCDF(0, 1, 0.5 + (options.CoverageProbability / 2));
+        var gradient = new double[chosen.Model.ParameterCount];
+        var atFullScale = chosen.Model.Evaluate(fullScale, chosen.Parameters, gradient);
+        var variance = 0.0;
+        for (var i = 0; i < gradient.Length; i++)
+        {
+            for (var j = 0; j < gradient.Length; j++)
+            {
+                variance += gradient[i] * chosen.Covariance[i, j] * gradient[j];
+            }
+        }
+
+        var u = k * Math.Sqrt(Math.Max(variance, 0));
+        ConformityVerdict? simple = null, guarded = null;
+        var specified = double.NaN;
+        if (spec.BurdenAtFullScale is { } limit)
+        {
+            specified = limit.Volts;
+            var drop = Math.Abs(atFullScale);
+            simple = drop <= specified ? ConformityVerdict.Pass : ConformityVerdict.Fail;
+            guarded = drop <= specified - u ? ConformityVerdict.Pass
+                : drop <= specified ? ConformityVerdict.ConditionalPass
+                : drop <= specified + u ? ConformityVerdict.ConditionalFail
+                : ConformityVerdict.Fail;
+        }
+
+        int judged = 0, above = 0;
+        int? worstStep = null;
+        var worstRatio = double.NegativeInfinity;
+        foreach (var p in spec.BurdenLimit is null ? [] : points)
+        {
+            var allowed = Core.Uut.BurdenLimitPoint.LimitAt(spec.BurdenLimit!, p.CurrentA);
+            if (!double.IsFinite(allowed))
+            {
+                continue;
+            }
+
+            judged++;
+            var drop = Math.Abs(p.DropVolts);
+            above += drop > allowed ? 1 : 0;
+            var ratio = allowed > 0 ? drop / allowed : drop > 0 ? double.PositiveInfinity : 0;
+            if (ratio > worstRatio)
+            {
+                (worstRatio, worstStep) = (ratio, p.Step);
+            }
+        }
+
+        ConformityVerdict? curveVerdict = judged == 0 ? null : above > 0 ? ConformityVerdict.Fail : ConformityVerdict.Pass;
+        return new BurdenCheck(specified, atFullScale, u, fullScale > fittedUpTo * (1 + 1e-9), simple, guarded, judged, above, curveVerdict, worstStep);
     }
 
     /// <summary>The worst verdicts and the smallest TUR over <paramref name="statements"/>; null when there are none.</summary>

@@ -4,6 +4,9 @@ namespace ShuntSweep.Reporting;
 /// command line say what it means.</summary>
 public static class RunEndWords
 {
+    /// <summary>The end code given to a run whose event log has no end-of-run record (a crash or power loss cut it off).</summary>
+    public const string CutOff = "CutOff";
+
     /// <summary>The plain words for the end code <paramref name="code"/>, or the code itself when it is not one the runner writes.</summary>
     public static string Describe(string? code) => code switch
     {
@@ -11,6 +14,7 @@ public static class RunEndWords
         "SafetyAbort" => "stopped for safety",
         "InstrumentFailure" => "stopped: an instrument failed",
         "Interrupted" => "interrupted",
+        CutOff => "cut off (no end-of-run record)",
         null or "" => "unknown",
         _ => code,
     };
@@ -23,6 +27,7 @@ public static class RunEndWords
         "SafetyAbort" => "safety-stop",
         "InstrumentFailure" => "instrument-failure",
         "Interrupted" => "interrupted",
+        CutOff => "cut-off",
         _ => "unknown",
     };
 }

@@ -79,6 +79,12 @@ internal sealed record RunRecords(
         }
 
         var events = RunEvent.ReadAll(Path.Combine(dir, EventsFile));
+        if (result.RunEnd is null && events.Count > 0)
+        {
+            // A result fitted from the journal of a run takes the run's end from its event log: a stopped run never reads as complete.
+            result = result with { RunEnd = events.LastOrDefault(e => e.Name == "run-end")?.Field("end") ?? RunEndWords.CutOff };
+        }
+
         return new RunRecords(dir, result, manifest, samples, events, LoadUut(dir, manifest, notes), notes);
     }
 

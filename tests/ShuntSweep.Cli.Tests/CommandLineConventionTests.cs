@@ -86,13 +86,14 @@ public sealed class CommandLineConventionTests
         Assert.True(evaluation.IsValid, string.Join("; ", evaluation.Details.Where(d => d.HasErrors).SelectMany(d => d.Errors!.Select(e => $"{d.InstanceLocation}: {e.Value}"))));
         Assert.Equal("completed", (string?)summary!["end"]);
         Assert.Equal(["60mA", "10A"], summary["ranges"]!.AsArray().Select(r => (string?)r!["name"]));
+        Assert.Equal("pass", (string?)summary["verdict"]);
 
         // A summary the schema must refuse, so that the check above can fail.
         summary["end"] = "SafetyAbort";
         Assert.False(schema.Evaluate(summary).IsValid);
 
         var xml = ValidateJUnit(junit);
-        Assert.Equal("4", (string?)xml.Root!.Attribute("tests"));
+        Assert.Equal("6", (string?)xml.Root!.Attribute("tests")); // completed, outputs off, and per range its burden and conformity
     }
 
     [Fact]

@@ -44,7 +44,8 @@ public sealed class ModelChoiceTests
     {
         var dir = Some.TempDirectory();
         var path = sequence == "tw61" ? Some.TempFile(Tw61Sweep) : Repo.File(sequence);
-        Assert.Equal(0, await Cli.RunAsync("run", path, "--bench", Repo.File(bench), "--out", dir, "--seed", "7", "--answers", Some.TempFile("otherwise: done\n")));
+        // The LX-1 prototype is outside its accuracy and burden targets: its run completes with verdict "outside specification".
+        Assert.Equal(bench.Contains("lx1", StringComparison.Ordinal) ? 1 : 0, await Cli.RunAsync("run", path, "--bench", Repo.File(bench), "--out", dir, "--seed", "7", "--answers", Some.TempFile("otherwise: done\n")));
 
         var result = ResultJson.Read(Path.Combine(dir, "result.json"));
         var description = BenchReader.Load(Repo.File(bench));
@@ -89,7 +90,7 @@ public sealed class ModelChoiceTests
     public async Task Lx1RnD_RecoversTheKneeTheFeedbackResistorAndTheHeatingFuse()
     {
         var dir = Some.TempDirectory();
-        Assert.Equal(0, await Cli.RunAsync("run", Repo.File("sequences/rnd-wide-range-lx1.yaml"), "--bench", Repo.File("simulators/frontend-kestrel-lx1-proto.yaml"), "--out", dir, "--seed", "7"));
+        Assert.Equal(1, await Cli.RunAsync("run", Repo.File("sequences/rnd-wide-range-lx1.yaml"), "--bench", Repo.File("simulators/frontend-kestrel-lx1-proto.yaml"), "--out", dir, "--seed", "7")); // completed, outside specification
         var ranges = ResultJson.Read(Path.Combine(dir, "result.json")).Ranges.ToDictionary(r => r.Name);
         double P(string range, string name) => ranges[range].Parameters!.Single(p => p.Name == name).Value;
 

@@ -8,13 +8,25 @@ namespace ShuntSweep.Analysis.Results;
 /// <param name="Conformity">The worst conformity statement over all ranges with UUT readings (null when the UUT was not read).</param>
 /// <param name="DiodeTemperatureK">The temperature at which V_T = kT/q was taken for the clamp-diode model.</param>
 /// <param name="CoverageProbability">The coverage probability of every expanded uncertainty in the file.</param>
+/// <param name="RunEnd">How the run that measured the samples ended (the runner's end code, <c>Completed</c>, <c>SafetyAbort</c>, ...);
+/// null for a result fitted from a journal alone.</param>
+/// <param name="LeftOut">What the analysis had to leave out (ranges with too few points), in words; empty when nothing was.</param>
 public sealed record CharacterisationResult(
     IReadOnlyList<RangeResult> Ranges,
     IReadOnlyList<JackDecomposition>? Decomposition = null,
     ConformitySummary? Conformity = null,
     double DiodeTemperatureK = 296.15,
-    double CoverageProbability = 0.95)
+    double CoverageProbability = 0.95,
+    string? RunEnd = null,
+    IReadOnlyList<string>? LeftOut = null)
 {
+    /// <summary>The verdict on the whole UUT: incomplete when the run stopped early or a range was left out (never a pass then),
+    /// else fail when any range fails its specification, else pass when any range was judged.</summary>
+    public RecordVerdict Verdict => Verdicts.Of(this);
+
+    /// <summary>Each range's verdict as this result states it: a range that met its specification in a run that stopped early is incomplete, not a pass.</summary>
+    public IReadOnlyDictionary<string, RecordVerdict> RangeVerdicts => Ranges.ToDictionary(r => r.Name, r => Verdicts.Of(this, r), StringComparer.Ordinal);
+
     /// <summary>The range called <paramref name="name"/>; throws naming the ranges present otherwise.</summary>
     public RangeResult Range(string name) =>
         Ranges.FirstOrDefault(r => r.Name == name)
@@ -81,6 +93,7 @@ public sealed record Estimate(
 /// <param name="AccuracyFractionOfReading">The UUT's specification, % of reading part, as a fraction (NaN without a UUT description).</param>
 /// <param name="AccuracyCounts">The UUT's specification, counts part.</param>
 /// <param name="Warnings">Wiring problems and other findings a person must see (a negative resistance: reversed leads).</param>
+/// <param name="Burden">The burden judged against the specified burden and limit curve (null when the specification states neither).</param>
 public sealed record RangeResult(
     string Name,
     string Jack,
@@ -107,11 +120,42 @@ public sealed record RangeResult(
     double ReadingResolutionA = double.NaN,
     double AccuracyFractionOfReading = double.NaN,
     int AccuracyCounts = 0,
-    IReadOnlyList<string>? Warnings = null)
+    IReadOnlyList<string>? Warnings = null,
+    BurdenCheck? Burden = null)
 {
     /// <summary>The UUT's specification half-width at <paramref name="readingA"/>: fraction·|reading| + counts·resolution; NaN when unknown.</summary>
     public double SpecificationLimit(double readingA) =>
         (AccuracyFractionOfReading * Math.Abs(readingA)) + (AccuracyCounts * (double.IsFinite(ReadingResolutionA) ? ReadingResolutionA : 0));
+    /// <summary>How many of the range's points did not settle within their maximum wait (all of them are in the fit, flagged).</summary>
+    public int UnsettledPoints => Points.Count(p => p.Unsettled);
+}
+
+/// <summary>The measured burden judged against the specification: the model's drop at full scale against the specified maximum, and every
+/// measured point against the optional limit curve. The burden is an upper limit only (a smaller drop is always better).</summary>
+/// <param name="SpecifiedVolts">The specified maximum burden at full scale (NaN when the specification gives only a curve).</param>
+/// <param name="AtFullScaleVolts">The drop the chosen model predicts at full scale.</param>
+/// <param name="ExpandedUncertaintyVolts">U of that prediction at the result's coverage probability, from the fit's covariance.</param>
+/// <param name="Extrapolated">Whether full scale lies beyond the largest measured current (the prediction extrapolates the model).</param>
+/// <param name="AtFullScale">The simple-acceptance verdict at full scale (null without a specified burden).</param>
+/// <param name="AtFullScaleGuardBanded">The guard-banded verdict (w = U) at full scale (null without a specified burden).</param>
+/// <param name="CurvePoints">How many measured points lay within the limit curve's current span and were judged against it.</param>
+/// <param name="CurvePointsAbove">How many of them had a mean drop above the curve.</param>
+/// <param name="Curve">The worst simple-acceptance verdict over the curve's points (null without a curve or when no point lay in its span).</param>
+/// <param name="WorstCurveStep">The step whose drop came nearest to (or furthest over) the curve, relative to the limit there.</param>
+public sealed record BurdenCheck(
+    double SpecifiedVolts,
+    double AtFullScaleVolts,
+    double ExpandedUncertaintyVolts,
+    bool Extrapolated,
+    ConformityVerdict? AtFullScale,
+    ConformityVerdict? AtFullScaleGuardBanded,
+    int CurvePoints,
+    int CurvePointsAbove,
+    ConformityVerdict? Curve,
+    int? WorstCurveStep)
+{
+    /// <summary>Whether the burden fails anywhere it was judged (simple acceptance).</summary>
+    public bool Fails => AtFullScale == ConformityVerdict.Fail || Curve == ConformityVerdict.Fail;
 }
 
 /// <summary>One fitted model parameter.</summary>
@@ -134,6 +178,8 @@ public sealed record ParameterResult(string Name, string Unit, double Value, dou
 /// <param name="ResidualVolts">The measured minus the fitted drop.</param>
 /// <param name="StudentisedResidual">The externally studentised residual of the point.</param>
 /// <param name="Outlier">Whether the studentised residual exceeds the outlier threshold; outliers are flagged, never dropped.</param>
+/// <param name="Unsettled">Whether the drop had not settled when the point's maximum wait ran out (the run's <c>not-settled</c> event);
+/// such a point is kept in the fit, flagged, with the scatter its samples show.</param>
 public sealed record PointResult(
     int Step,
     int Samples,
@@ -145,7 +191,8 @@ public sealed record PointResult(
     double ReadingA,
     double ResidualVolts,
     double StudentisedResidual,
-    bool Outlier);
+    bool Outlier,
+    bool Unsettled = false);
 
 /// <summary>How the candidate drop models compared on one range.</summary>
 /// <param name="Chosen">The chosen model.</param>

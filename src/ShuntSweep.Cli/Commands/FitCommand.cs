@@ -2,11 +2,14 @@ using System.CommandLine;
 using System.Globalization;
 using ShuntSweep.Analysis;
 using ShuntSweep.Analysis.Results;
+using ShuntSweep.Analysis.Uncertainty;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Records;
 using ShuntSweep.Core.Uut;
+using ShuntSweep.Engine.Journal;
+using ShuntSweep.Reporting;
 using Spectre.Console;
 
 namespace ShuntSweep.Cli.Commands;
@@ -39,11 +42,19 @@ internal static class FitCommand
 
             var uutPath = parse.GetValue(uutOpt);
             UutDescription? uut = uutPath is null ? null : UutReader.Load(uutPath);
-            var options = new AnalysisOptions { Allowances = uutPath is null ? BenchAllowances.None : AllowancesOf(uutPath) };
-            var result = Characteriser.Analyse(contents.Samples, uut, options);
-            var outPath = parse.GetValue(outOpt) ?? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(journalPath)) ?? ".", "result.json");
+            // A journal inside a run directory brings its events: how the run ended and which points did not settle.
+            var runDir = Path.GetDirectoryName(Path.GetFullPath(journalPath)) ?? ".";
+            var hasEvents = File.Exists(Path.Combine(runDir, RunJournal.EventsFile));
+            var options = new AnalysisOptions
+            {
+                Allowances = uutPath is null ? BenchAllowances.None : AllowancesOf(uutPath),
+                UnsettledSteps = hasEvents ? EventLog.UnsettledSteps(runDir) : new HashSet<int>(),
+            };
+            var result = Characteriser.Analyse(contents.Samples, uut, options) with { RunEnd = hasEvents ? EventLog.LastRunEnd(runDir) ?? RunEndWords.CutOff : null };
+            var outPath = parse.GetValue(outOpt) ?? Path.Combine(runDir, "result.json");
             ResultJson.Write(result, outPath);
             ShowRanges(result);
+            ShowVerdict(result);
             AnsiConsole.MarkupLineInterpolated($"Result: {outPath}");
             return Task.FromResult(ExitCodes.Success);
         }));
@@ -59,7 +70,7 @@ internal static class FitCommand
     {
         var p = result.CoverageProbability;
         var table = new Table().Title($"Characterisation per range (U at p = {QuantityFormatter.Format(p * 100, SiUnit.None)} %)")
-            .AddColumns("range", "jack", "FS", "model", "R ± U (k)", "offset ± U (k)", "drop @ FS", "points");
+            .AddColumns("range", "jack", "FS", "model", "R ± U (k)", "offset ± U (k)", "drop @ FS", "points", "verdict");
         foreach (var r in result.Ranges)
         {
             table.AddRow(
@@ -70,7 +81,8 @@ internal static class FitCommand
                 Markup.Escape(Expanded(r.ResistanceOhms, SiUnit.Ohm, p)),
                 Markup.Escape(Expanded(r.OffsetVolts, SiUnit.Volt, p)),
                 QuantityFormatter.Format(r.BurdenAtFullScaleVolts, SiUnit.Volt),
-                r.Points.Count.ToString(CultureInfo.InvariantCulture));
+                r.UnsettledPoints > 0 ? $"{r.Points.Count} ({r.UnsettledPoints} unsettled)" : r.Points.Count.ToString(CultureInfo.InvariantCulture),
+                Markup.Escape(Verdicts.Words(Verdicts.Of(result, r)) + VerdictReasons(r)));
         }
 
         AnsiConsole.Write(table);
@@ -98,5 +110,49 @@ internal static class FitCommand
     {
         var (u, k) = e.Expansion(coverageProbability);
         return QuantityFormatter.FormatExpanded(e.Value, u, k, unit);
+    }
+
+    /// <summary>Prints the verdict on the whole UUT, and every flagged unsettled point, under the table.</summary>
+    public static void ShowVerdict(CharacterisationResult result)
+    {
+        foreach (var r in result.Ranges.Where(r => r.UnsettledPoints > 0))
+        {
+            var steps = string.Join(", ", r.Points.Where(p => p.Unsettled).Select(p => p.Step.ToString(CultureInfo.InvariantCulture)));
+            Terminal.Note("unsettled", $"range {r.Name}: {r.UnsettledPoints} point(s) had not settled when their maximum wait ran out (steps {steps}); they are used in the fit, flagged, with the scatter their samples show.");
+        }
+
+        var verdict = result.Verdict;
+        var colour = verdict switch { RecordVerdict.Pass => "green", RecordVerdict.Fail or RecordVerdict.Incomplete => "red", _ => "yellow" };
+        var why = verdict switch
+        {
+            RecordVerdict.Fail => $": {string.Join(", ", result.Ranges.Where(r => Verdicts.Of(r) == RecordVerdict.Fail).Select(r => r.Name))} outside specification",
+            RecordVerdict.Incomplete => result.RunEnd is { } end && end != Verdicts.Completed
+                ? $": the run {RunEndWords.Describe(end)} before its last step"
+                : ": a range could not be analysed",
+            _ => string.Empty,
+        };
+        AnsiConsole.MarkupLineInterpolated($"[{colour}]Verdict: {Verdicts.Words(verdict)}{why}.[/]");
+    }
+
+    /// <summary>What made a range fail, in a few words: accuracy, burden at full scale, burden curve.</summary>
+    private static string VerdictReasons(RangeResult r)
+    {
+        var reasons = new List<string>();
+        if (r.Conformity?.SimpleAcceptance == ConformityVerdict.Fail)
+        {
+            reasons.Add("accuracy");
+        }
+
+        if (r.Burden?.AtFullScale == ConformityVerdict.Fail)
+        {
+            reasons.Add("burden");
+        }
+
+        if (r.Burden?.Curve == ConformityVerdict.Fail)
+        {
+            reasons.Add("burden curve");
+        }
+
+        return reasons.Count > 0 ? $" ({string.Join(", ", reasons)})" : string.Empty;
     }
 }

@@ -1,5 +1,6 @@
 using System.CommandLine;
 using System.Globalization;
+using ShuntSweep.Analysis.Results;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Quantities;
 using ShuntSweep.Reporting.Archive;
@@ -65,7 +66,7 @@ internal static class HistoryCommand
                     Markup.Escape(r.AssetId ?? "—"),
                     Markup.Escape(r.BenchName) + (r.Simulated ? " (sim)" : string.Empty),
                     Markup.Escape(r.RunEnd is null ? "—" : ShuntSweep.Reporting.RunEndWords.Describe(r.RunEnd)),
-                    Markup.Escape(r.Verdict ?? "—"));
+                    Markup.Escape(VerdictOf(r)));
             }
 
             AnsiConsole.Write(runs);
@@ -103,5 +104,24 @@ internal static class HistoryCommand
             return ExitCodes.Success;
         }));
         return command;
+    }
+
+    /// <summary>The run's verdict in words; a run that did not complete is incomplete whatever an older archive recorded for it.</summary>
+    private static string VerdictOf(ArchivedRun run)
+    {
+        if (run.RunEnd is { } end && end != Verdicts.Completed)
+        {
+            return Verdicts.Words(RecordVerdict.Incomplete);
+        }
+
+        return run.Verdict switch
+        {
+            null => "—",
+            "pass" => Verdicts.Words(RecordVerdict.Pass),
+            "fail" => Verdicts.Words(RecordVerdict.Fail),
+            "incomplete" => Verdicts.Words(RecordVerdict.Incomplete),
+            "not-judged" => Verdicts.Words(RecordVerdict.NotJudged),
+            var older => older,
+        };
     }
 }

@@ -237,7 +237,7 @@ internal static class RunCommand
 
             wall.Stop();
             ShowOutcome(outcome, bench.IsSimulated, clock.Now() - start, wall.Elapsed);
-            result = Analyse(outDir, bench, journal);
+            result = Analyse(outDir, bench, journal, outcome.End);
         }
 
         var code = outcome.End switch
@@ -256,6 +256,12 @@ internal static class RunCommand
         if (code == ExitCodes.Success && !recorded)
         {
             code = ExitCodes.RecordFailed;
+        }
+
+        // A stopped run keeps its own code (4, 5, 130) and a record that failed keeps 6: "outside specification" is said only of a run that completed.
+        if (code == ExitCodes.Success && result?.Verdict == RecordVerdict.Fail)
+        {
+            code = ExitCodes.CheckFailed;
         }
 
         if (outputs.Json is { } json)
@@ -288,17 +294,20 @@ internal static class RunCommand
     }
 
     /// <summary>Fits what was measured as far as it goes and writes <c>result.json</c>; ranges that cannot be fitted are left out and said so (on screen and in the events).</summary>
-    private static CharacterisationResult? Analyse(string outDir, BenchDescription bench, RunJournal journal)
+    private static CharacterisationResult? Analyse(string outDir, BenchDescription bench, RunJournal journal, RunEnd end)
     {
         var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
         var samples = JournalCsv.Read(journalPath).Samples;
         var notes = new List<string>();
-        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes, new AnalysisOptions { Allowances = bench.Allowances ?? BenchAllowances.None });
+        var unsettled = EventLog.UnsettledSteps(outDir);
+        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes, new AnalysisOptions { Allowances = bench.Allowances ?? BenchAllowances.None, UnsettledSteps = unsettled });
         if (result is not null)
         {
+            result = result with { RunEnd = end.ToString(), LeftOut = notes };
             var resultPath = Path.Combine(outDir, "result.json");
             ResultJson.Write(result, resultPath);
             FitCommand.ShowRanges(result);
+            FitCommand.ShowVerdict(result);
             AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
         }
 

@@ -23,6 +23,7 @@ namespace ShuntSweep.Cli.Commands;
 /// <param name="RunDirectory">The run directory (null under <c>--reproducible</c>).</param>
 /// <param name="Archive">Where the run was archived (null with <c>--no-archive</c> or under <c>--reproducible</c>).</param>
 /// <param name="Ranges">One entry per characterised range.</param>
+/// <param name="Verdict">The verdict on the UUT: <c>pass</c>, <c>fail</c>, <c>not-judged</c>, or <c>incomplete</c> for a run that stopped early (never a pass).</param>
 internal sealed record RunSummary(
     string Sequence,
     string Bench,
@@ -37,7 +38,8 @@ internal sealed record RunSummary(
     bool OutputsConfirmedOff,
     string? RunDirectory,
     string? Archive,
-    IReadOnlyList<RangeSummary> Ranges)
+    IReadOnlyList<RangeSummary> Ranges,
+    string Verdict)
 {
     /// <summary>How the summary is written: camelCase, indented, NaN as a string.</summary>
     public static readonly JsonSerializerOptions Options = new()
@@ -66,7 +68,8 @@ internal sealed record RunSummary(
 /// <summary>The identity of the unit under test in a run summary.</summary>
 internal sealed record UutSummary(string Manufacturer, string Model, string Serial, string? AssetId);
 
-/// <summary>One range in a run summary: the chosen model, its runner-up, the resistance (k = 1) and the drop at full scale.</summary>
+/// <summary>One range in a run summary: the chosen model, its runner-up, the resistance (k = 1), the drop at full scale and the verdict
+/// (<c>pass</c>, <c>fail</c>, <c>not-judged</c>, <c>incomplete</c>; accuracy and burden both count).</summary>
 internal sealed record RangeSummary(
     string Name,
     string Jack,
@@ -77,7 +80,10 @@ internal sealed record RangeSummary(
     double BurdenAtFullScaleVolts,
     int Points,
     int Outliers,
-    string? Conformity);
+    string? Conformity,
+    string Verdict,
+    string? Burden,
+    int Unsettled);
 
 /// <summary>Builds what <c>run</c> writes for scripts and CI besides its run directory.</summary>
 internal static class RunOutputs
@@ -109,7 +115,11 @@ internal static class RunOutputs
                 r.BurdenAtFullScaleVolts,
                 r.Points.Count,
                 r.Points.Count(p => p.Outlier),
-                r.Conformity?.SimpleAcceptance.ToString())).ToList());
+                r.Conformity?.SimpleAcceptance.ToString(),
+                Verdicts.Token(Verdicts.Of(result!, r)),
+                r.Burden is { } b ? (b.Fails ? "Fail" : "Pass") : null,
+                r.UnsettledPoints)).ToList(),
+            result is null ? Verdicts.Token(RecordVerdict.Incomplete) : Verdicts.Token(result.Verdict));
 
     /// <summary>The run's checks as JUnit cases: that it completed, that the outputs were confirmed off, and each range's conformity
     /// (skipped where the UUT was not read against a specification).</summary>
@@ -124,6 +134,12 @@ internal static class RunOutputs
         };
         foreach (var r in result?.Ranges ?? [])
         {
+            if (r.Burden is { } b)
+            {
+                cases.Add(new JUnitCase($"shuntsweep.run.{r.Name}", "burden", b.Fails ? JUnitOutcome.Failed : JUnitOutcome.Passed,
+                    $"drop at full scale {b.AtFullScaleVolts:G4} V against {b.SpecifiedVolts:G4} V specified; {b.CurvePointsAbove} of {b.CurvePoints} points above the limit curve"));
+            }
+
             cases.Add(r.Conformity is { } c
                 ? new JUnitCase($"shuntsweep.run.{r.Name}", "conformity",
                     c.SimpleAcceptance is Analysis.Uncertainty.ConformityVerdict.Pass or Analysis.Uncertainty.ConformityVerdict.ConditionalPass ? JUnitOutcome.Passed : JUnitOutcome.Failed,

@@ -37,6 +37,8 @@ public sealed record JackSpec(string Name, Current FuseRating, string? Category)
 /// <param name="Accuracy">The reading accuracy, ±(% of reading + counts).</param>
 /// <param name="BurdenAtFullScale">The specified maximum burden voltage at full scale, when stated.</param>
 /// <param name="OverRange">How far above full scale the reading goes before it shows overload, as a fraction (0.1 = 10 %).</param>
+/// <param name="BurdenLimit">An optional limit curve of drop against current (corner points, rising current), for judging every measured point
+/// and not only full scale.</param>
 public sealed record RangeSpec(
     string Name,
     string Jack,
@@ -45,7 +47,33 @@ public sealed record RangeSpec(
     Resistance? NominalShunt,
     AccuracySpec Accuracy,
     Voltage? BurdenAtFullScale,
-    double OverRange);
+    double OverRange,
+    IReadOnlyList<BurdenLimitPoint>? BurdenLimit = null);
+
+/// <summary>One corner of a range's burden limit curve: at <paramref name="Current"/> the drop may be at most <paramref name="Drop"/>;
+/// between corners the limit is interpolated linearly.</summary>
+/// <param name="Current">The current of the corner (magnitude).</param>
+/// <param name="Drop">The largest drop allowed there.</param>
+public sealed record BurdenLimitPoint(Current Current, Voltage Drop)
+{
+    /// <summary>The limit at |<paramref name="amperes"/>| interpolated between the corners of <paramref name="curve"/>; NaN outside the curve's span.</summary>
+    public static double LimitAt(IReadOnlyList<BurdenLimitPoint> curve, double amperes)
+    {
+        ArgumentNullException.ThrowIfNull(curve);
+        var a = Math.Abs(amperes);
+        for (var i = 0; i + 1 < curve.Count; i++)
+        {
+            var (i0, i1) = (curve[i].Current.Amperes, curve[i + 1].Current.Amperes);
+            if (a >= i0 && a <= i1)
+            {
+                var t = i1 > i0 ? (a - i0) / (i1 - i0) : 0;
+                return curve[i].Drop.Volts + (t * (curve[i + 1].Drop.Volts - curve[i].Drop.Volts));
+            }
+        }
+
+        return curve.Count == 1 && a == curve[0].Current.Amperes ? curve[0].Drop.Volts : double.NaN;
+    }
+}
 
 /// <summary>A reading accuracy of the usual form ±(% of reading + counts).</summary>
 /// <param name="FractionOfReading">The reading part as a fraction (0.005 for 0.5 %).</param>

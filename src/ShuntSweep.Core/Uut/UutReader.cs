@@ -84,6 +84,7 @@ public static class UutReader
             accuracy?.Finish();
             var burden = r.QuantityOrNull("burdenAtFullScale", SiUnit.Volt, Allowed.NonNegative(SiUnit.Volt));
             var overRange = r.QuantityOr("overRange", SiUnit.None, 0.1, Allowed.Between(0, 10, SiUnit.None) with { Text = "from 0 % to 1000 % of full scale" });
+            var limitCurve = ReadBurdenLimit(r, name);
             ranges.Add(new RangeSpec(
                 name,
                 jack,
@@ -92,7 +93,8 @@ public static class UutReader
                 shunt is null ? null : new Resistance(shunt.Value),
                 spec,
                 burden is null ? null : new Voltage(burden.Value),
-                overRange));
+                overRange,
+                limitCurve));
             r.Finish();
         }
 
@@ -110,5 +112,37 @@ public static class UutReader
             ranges);
         map.Finish();
         return description;
+    }
+
+    /// <summary>Reads a range's optional <c>burdenLimit</c>: a list of <c>{ current, drop }</c> corners at rising current, at least two.</summary>
+    private static List<BurdenLimitPoint>? ReadBurdenLimit(MappingReader range, string name)
+    {
+        if (range.Optional("burdenLimit") is not { } node)
+        {
+            return null;
+        }
+
+        var corners = new List<BurdenLimitPoint>();
+        foreach (var item in node.AsSequence())
+        {
+            var c = item.AsMapping();
+            var corner = new BurdenLimitPoint(
+                new Current(c.Quantity("current", SiUnit.Ampere, Allowed.NonNegative(SiUnit.Ampere))),
+                new Voltage(c.Quantity("drop", SiUnit.Volt, Allowed.NonNegative(SiUnit.Volt))));
+            if (corners.Count > 0 && corner.Current.Amperes <= corners[^1].Current.Amperes)
+            {
+                throw item.Error($"range '{name}': burdenLimit corners must be at rising current; {corner.Current} follows {corners[^1].Current}.");
+            }
+
+            c.Finish();
+            corners.Add(corner);
+        }
+
+        if (corners.Count < 2)
+        {
+            throw node.Error($"range '{name}': burdenLimit needs at least two corners ({{ current: 0 A, drop: 0 V }}, {{ current: 1 A, drop: 200 mV }}).");
+        }
+
+        return corners;
     }
 }

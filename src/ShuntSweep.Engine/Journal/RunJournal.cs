@@ -137,7 +137,6 @@ public static class EventLog
         return last;
     }
 
-    /// <summary>The events of a log, leaving out a last line torn by an interrupted write.</summary>
     /// <summary>How the last run in <paramref name="directory"/> ended (the <c>end</c> of its last <c>run-end</c> event), or null when no run has ended there.</summary>
     public static string? LastRunEnd(string directory) =>
         File.Exists(Path.Combine(directory, RunJournal.EventsFile)) && Read(Path.Combine(directory, RunJournal.EventsFile))
@@ -152,6 +151,16 @@ public static class EventLog
             ? t
             : null;
 
+    /// <summary>The steps of the run in <paramref name="directory"/> whose drop had not settled when their maximum wait ran out (<c>not-settled</c> events).</summary>
+    public static IReadOnlySet<int> UnsettledSteps(string directory) =>
+        File.Exists(Path.Combine(directory, RunJournal.EventsFile))
+            ? Read(Path.Combine(directory, RunJournal.EventsFile))
+                .Where(e => e.GetProperty("event").GetString() == "not-settled" && e.TryGetProperty("step", out var s) && s.ValueKind == JsonValueKind.Number)
+                .Select(e => e.GetProperty("step").GetInt32())
+                .ToHashSet()
+            : new HashSet<int>();
+
+    /// <summary>The events of a log, leaving out a last line torn by an interrupted write.</summary>
     public static IEnumerable<JsonElement> Read(string path)
     {
         var text = File.ReadAllText(path);

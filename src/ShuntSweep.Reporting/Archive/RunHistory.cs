@@ -10,7 +10,8 @@ namespace ShuntSweep.Reporting.Archive;
 /// <param name="BenchName">The bench the run used.</param>
 /// <param name="Simulated">Whether the bench was simulated.</param>
 /// <param name="RunEnd">How the run ended (from its event log), when known.</param>
-/// <param name="Verdict">The UUT's worst simple-acceptance verdict in the run, when it was judged.</param>
+/// <param name="Verdict">The run's verdict token (<c>pass</c>, <c>fail</c>, <c>not-judged</c>, <c>incomplete</c>); older archives hold the worst
+/// simple-acceptance verdict (<c>Pass</c>, <c>Fail</c>).</param>
 public sealed record ArchivedRun(
     string RunId,
     DateTimeOffset Start,

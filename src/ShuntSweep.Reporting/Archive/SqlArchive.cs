@@ -5,6 +5,7 @@ using System.Text;
 using Microsoft.Data.Sqlite;
 using Npgsql;
 using ShuntSweep.Analysis;
+using ShuntSweep.Analysis.Results;
 using ShuntSweep.Core.Records;
 
 namespace ShuntSweep.Reporting.Archive;
@@ -77,9 +78,16 @@ internal sealed class SqlArchive(ArchiveLocation location, TimeProvider time) : 
 
         var manifest = RunManifest.Read(dir);
         var resultPath = Path.Combine(dir, RunRecords.ResultFile);
+        var events = RunEvent.ReadAll(Path.Combine(dir, RunRecords.EventsFile));
+        var runEnd = events.LastOrDefault(e => e.Name == "run-end")?.Field("end") ?? (events.Count > 0 ? RunEndWords.CutOff : null);
         var result = ResultJson.Read(resultPath);
-        var runEnd = RunEvent.ReadAll(Path.Combine(dir, RunRecords.EventsFile)).LastOrDefault(e => e.Name == "run-end")?.Field("end");
-        var verdict = result.Conformity?.SimpleAcceptance.ToString();
+        if (result.RunEnd is null && runEnd is not null)
+        {
+            // A result fitted before the run's end was recorded in it still takes the end from the event log: a stopped run is never archived as a pass.
+            result = result with { RunEnd = runEnd };
+        }
+
+        var verdict = Verdicts.Token(result.Verdict);
         var runId = RunId(manifest);
         var ct = cancellationToken;
 
@@ -107,7 +115,7 @@ internal sealed class SqlArchive(ArchiveLocation location, TimeProvider time) : 
                 """, ct,
                 ("id", runId), ("range", r.Name), ("pos", i), ("jack", r.Jack), ("model", r.Model), ("fs", r.FullScaleA), ("r", r.ResistanceOhms.Value),
                 ("ur", r.ResistanceOhms.StandardUncertainty), ("offset", r.OffsetVolts.Value), ("burden", r.BurdenAtFullScaleVolts),
-                ("verdict", r.Conformity?.SimpleAcceptance.ToString())).ConfigureAwait(false);
+                ("verdict", Verdicts.Token(Verdicts.Of(result, r)))).ConfigureAwait(false);
         }
 
         await tx.CommitAsync(ct).ConfigureAwait(false);

@@ -44,7 +44,11 @@ public static class ResultComparer
         ArgumentNullException.ThrowIfNull(actual);
         ArgumentNullException.ThrowIfNull(golden);
         ArgumentNullException.ThrowIfNull(tolerance);
-        var checks = new List<CompareCheck>();
+        var checks = new List<CompareCheck>
+        {
+            Completeness("result", actual),
+            Completeness("golden result", golden),
+        };
         foreach (var g in golden.Ranges)
         {
             var a = actual.Ranges.FirstOrDefault(r => r.Name == g.Name);
@@ -75,6 +79,20 @@ public static class ResultComparer
         }
 
         return new ComparisonReport(checks);
+    }
+
+    /// <summary>An incomplete result (a stopped run, a range left out) fails the gate whatever its numbers: it never passes as if it were complete.</summary>
+    private static CompareCheck Completeness(string which, CharacterisationResult result)
+    {
+        if (!Verdicts.IsIncomplete(result))
+        {
+            return new CompareCheck("(run)", "complete", true, $"the {which} comes from a completed run.");
+        }
+
+        var why = result.RunEnd is { } end && end != Verdicts.Completed
+            ? $"its run {RunEndWords.Describe(end)} before its last step"
+            : $"the analysis left out: {string.Join(" ", result.LeftOut ?? [])}";
+        return new CompareCheck("(run)", "complete", false, $"the {which} is incomplete ({why}); an incomplete result cannot pass a comparison.");
     }
 
     private static CompareCheck Relative(string range, string quantity, double actual, double golden, double fraction, SiUnit unit)

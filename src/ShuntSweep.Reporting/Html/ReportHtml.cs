@@ -25,6 +25,7 @@ internal static class ReportHtml
         Header(html, run);
         html.Append("<main>\n");
         Outcome(html, run);
+        VerdictBanner(html, run.Result);
         Uut(html, run);
         Bench(html, run, showPaths);
         Safety(html, run);
@@ -87,6 +88,52 @@ internal static class ReportHtml
         {
             html.Append("<div class=\"banner stop\" id=\"analysis-incomplete\"><strong>Analysis incomplete</strong> — ").Append(E(analysis.Field("notes"))).Append("</div>\n");
         }
+    }
+
+    private static void VerdictBanner(StringBuilder html, CharacterisationResult result)
+    {
+        var v = result.Verdict;
+        var failing = result.Ranges.Where(r => Verdicts.Of(r) == RecordVerdict.Fail).Select(r => r.Name).ToList();
+        var detail = v switch
+        {
+            RecordVerdict.Pass => "every judged range meets its accuracy and burden specification.",
+            RecordVerdict.Fail => $"outside specification on {string.Join(", ", failing)}.",
+            RecordVerdict.Incomplete => "the run did not measure everything it planned, so no statement of conformity is made for the UUT"
+                + (failing.Count > 0 ? $"; measured outside specification on {string.Join(", ", failing)}." : "."),
+            _ => "nothing in this run was judged against a specification.",
+        };
+        html.Append(CultureInfo.InvariantCulture, $"<div class=\"verdict {Verdicts.Token(v)}\" id=\"record-verdict\"><strong>Verdict: {E(Verdicts.Words(v))}</strong> — {E(detail)}</div>\n");
+    }
+
+    /// <summary>The range's verdict in words with what it rests on: the accuracy, the burden at full scale and the burden curve.</summary>
+    private static string RangeVerdict(CharacterisationResult result, RangeResult r)
+    {
+        var parts = new List<string>();
+        if (r.Conformity is { } c)
+        {
+            parts.Add($"accuracy: {Verdict(c.SimpleAcceptance)} (guard band: {Verdict(c.GuardBanded)}; TUR ≥ {N(c.MinimumTestUncertaintyRatio, "0.##")})");
+        }
+
+        if (r.Burden is { } b)
+        {
+            if (b.AtFullScale is { } fs)
+            {
+                parts.Add($"burden at full scale: {Q(b.AtFullScaleVolts, SiUnit.Volt, 4)} ± {Q(b.ExpandedUncertaintyVolts, SiUnit.Volt, 2)} against {Q(b.SpecifiedVolts, SiUnit.Volt)} specified, {Verdict(fs)}{(b.Extrapolated ? " (extrapolated beyond the largest current measured)" : string.Empty)}");
+            }
+
+            if (b.Curve is { } curve)
+            {
+                parts.Add($"burden limit curve: {b.CurvePointsAbove} of {b.CurvePoints} points above it, {Verdict(curve)}");
+            }
+        }
+
+        if (r.UnsettledPoints > 0)
+        {
+            parts.Add($"{r.UnsettledPoints} unsettled point(s), used in the fit");
+        }
+
+        return $"<strong>{E(Verdicts.Words(Verdicts.Of(result, r)))}</strong>"
+            + (parts.Count > 0 ? $"<br><span class=\"muted\">{E(string.Join("; ", parts))}</span>" : "<br><span class=\"muted\">no specification to judge against</span>");
     }
 
     private static void Uut(StringBuilder html, RunRecords run)
@@ -170,7 +217,7 @@ internal static class ReportHtml
     {
         html.Append("<section id=\"ranges\"><h2>Results per range</h2>");
         Table(html, "data",
-            ["range", "jack", "full scale", "model", "resistance ± U (k)", "offset ± U (k)", "burden at full scale", "drop per ampere at full scale", "fitted up to", "points (outliers)", "against specification"],
+            ["range", "jack", "full scale", "model", "resistance ± U (k)", "offset ± U (k)", "burden at full scale", "drop per ampere at full scale", "fitted up to", "points (outliers)", "verdict"],
             result.Ranges.Select(r => (IReadOnlyList<string>)
             [
                 $"<strong>{E(r.Name)}</strong>",
@@ -183,9 +230,7 @@ internal static class ReportHtml
                 E(r.FullScaleA != 0 ? $"{N(r.BurdenAtFullScaleVolts / r.FullScaleA, "G4")} V/A" : "—"),
                 E(Q(r.FittedUpToA, SiUnit.Ampere)) + (double.IsFinite(r.ReadingLimitA) ? $"<br><span class=\"muted\">reading overloads from {E(Q(r.ReadingLimitA, SiUnit.Ampere))}</span>" : string.Empty),
                 E($"{r.Points.Count} ({r.Points.Count(p => p.Outlier)})"),
-                r.Conformity is { } c
-                    ? $"{VerdictTag(c.SimpleAcceptance)}<br><span class=\"muted\">guard band: {E(Verdict(c.GuardBanded))}; TUR ≥ {E(N(c.MinimumTestUncertaintyRatio, "0.##"))}</span>"
-                    : "<span class=\"muted\">not judged (no UUT readings)</span>",
+                RangeVerdict(result, r),
             ]));
         html.Append("<p class=\"note\">Resistance is the small-signal slope of drop against current at zero current, averaged over the candidate models by their Akaike weights (its uncertainty covers the choice of model); the burden at full scale is what the chosen model predicts there. ")
             .Append("Expanded uncertainties in this table are k = 2 times the standard uncertainties in result.json.</p>");
@@ -195,6 +240,18 @@ internal static class ReportHtml
             html.Append("<h3>Flagged points (kept in the fit)</h3>");
             Table(html, "data", ["range", "step", "current", "drop", "residual", "studentised residual"],
                 outliers.Select(o => (IReadOnlyList<string>)
+                [
+                    E(o.r.Name), E(o.p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(o.p.CurrentA, SiUnit.Ampere)), E(Q(o.p.DropVolts, SiUnit.Volt)),
+                    E(Q(o.p.ResidualVolts, SiUnit.Volt, 3)), E(N(o.p.StudentisedResidual, "0.##")),
+                ]));
+        }
+
+        var unsettled = result.Ranges.SelectMany(r => r.Points.Where(p => p.Unsettled).Select(p => (r, p))).ToList();
+        if (unsettled.Count > 0)
+        {
+            html.Append("<h3 id=\"unsettled\">Points that had not settled (used in the fit)</h3><p class=\"note\">The drop was still moving when the point's maximum wait ran out. Each such point is in the fit, weighted by the scatter its samples show; its residual tells whether it pulled the fit.</p>");
+            Table(html, "data", ["range", "step", "current", "drop", "residual", "studentised residual"],
+                unsettled.Select(o => (IReadOnlyList<string>)
                 [
                     E(o.r.Name), E(o.p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(o.p.CurrentA, SiUnit.Ampere)), E(Q(o.p.DropVolts, SiUnit.Volt)),
                     E(Q(o.p.ResidualVolts, SiUnit.Volt, 3)), E(N(o.p.StudentisedResidual, "0.##")),
@@ -373,6 +430,11 @@ internal static class ReportHtml
         {
             html.Append("<p>No statement of conformity is made: the run did not read the UUT against a reference with a stated accuracy.</p></section>\n");
             return;
+        }
+
+        if (Verdicts.IsIncomplete(result))
+        {
+            html.Append("<p class=\"banner stop\">The run is incomplete: no statement of conformity is made for the UUT. What follows is what the points measured showed.</p>");
         }
 
         html.Append(CultureInfo.InvariantCulture, $"<p id=\"verdict\">Over {c.Points} judged points the UUT's reading error is {VerdictTag(c.SimpleAcceptance)} under simple acceptance, and {VerdictTag(c.GuardBanded)} with the guard band. The smallest test uncertainty ratio is {E(N(c.MinimumTestUncertaintyRatio, "0.##"))}.</p>");

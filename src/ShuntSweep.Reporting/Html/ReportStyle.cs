@@ -28,6 +28,8 @@ internal static class ReportStyle
         .tag.out { background:#f8d7d3; color:#8e1f14; }
         .banner { border-left:6px solid var(--accent); background:#fff7ec; padding:10px 14px; margin:10px 0; }
         .banner.stop { border-color:#b5443b; background:#fdeeee; }
+        .verdict { border:2px solid var(--ink); padding:8px 14px; margin:10px 0; font-size:15px; background:var(--paper); }
+        .verdict.fail, .verdict.incomplete { border-style:double; border-width:4px; }
         ul.safety li { margin:3px 0; }
         figure { margin:12px 0 18px; page-break-inside:avoid; break-inside:avoid; }
         figure img { width:100%; max-width:900px; height:auto; border:1px solid var(--line); border-radius:4px; background:#fff; }

@@ -20,7 +20,17 @@ public sealed class ResultComparerTests : IClassFixture<ResultComparerTests.Gold
     {
         var report = ResultComparer.Compare(_golden, _golden, CompareTolerance.Default);
         Assert.True(report.Passed);
-        Assert.Equal(_golden.Ranges.Count * 4 + _golden.Ranges.Count(r => r.Conformity is not null), report.Checks.Count);
+        Assert.Equal(2 + (_golden.Ranges.Count * 4) + _golden.Ranges.Count(r => r.Conformity is not null), report.Checks.Count); // 2: both results complete
+    }
+
+    [Fact]
+    public void Compare_AnIncompleteResult_FailsEvenAgainstItself()
+    {
+        var stopped = _golden with { RunEnd = "SafetyAbort" };
+        var report = ResultComparer.Compare(stopped, stopped, CompareTolerance.Default);
+        Assert.False(report.Passed);
+        Assert.Equal(2, report.Failures);
+        Assert.Contains(report.Checks, c => c.Quantity == "complete" && c.Message.Contains("stopped for safety", StringComparison.Ordinal));
     }
 
     [Fact]

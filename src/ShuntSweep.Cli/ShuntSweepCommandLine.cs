@@ -30,6 +30,8 @@ internal static class ShuntSweepCommandLine
             HistoryCommand.Create(),
             CompareCommand.Create(),
             OverlayCommand.Create(),
+            SealCommands.Endorse(),
+            SealCommands.Verify(),
             ProbeCommand.Create(),
             CheckProfileCommand.Create(),
             SimCommand.Create(),

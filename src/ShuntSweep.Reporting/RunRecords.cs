@@ -85,8 +85,14 @@ internal sealed record RunRecords(
             result = result with { RunEnd = events.LastOrDefault(e => e.Name == "run-end")?.Field("end") ?? RunEndWords.CutOff };
         }
 
-        return new RunRecords(dir, result, manifest, samples, events, LoadUut(dir, manifest, notes), notes);
+        return new RunRecords(dir, result, manifest, samples, events, LoadUut(dir, manifest, notes), notes) { Approval = Reporting.Approval.Read(dir) };
     }
+
+    /// <summary>Who approved the record and when, when it was approved.</summary>
+    public Approval? Approval { get; init; }
+
+    /// <summary>The record's identifier: <c>SSR-</c> and the first twelve hex digits of the archive's run id (UUT, start, sequence, bench, seed).</summary>
+    public string? ReportId => Manifest is null ? null : "SSR-" + Archive.SqlArchive.RunId(Manifest)[..12].ToUpperInvariant();
 
     /// <summary>Whether <paramref name="fileName"/> exists in the run directory.</summary>
     public bool Has(string fileName) => File.Exists(Path.Combine(Directory, fileName));

@@ -38,13 +38,15 @@ internal static class RunCommand
         {
             Description = "Date the report, summary and JUnit file by the run's own start and leave folders out of them, so that the same run diffs clean in CI.",
         };
+        var context = new RecordOptions();
         var command = new Command("run", "Run a sequence on a bench, journal every sample, then fit and report.")
         {
             sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt, yesOpt, noArchiveOpt, jsonOpt, junitOpt, reproducibleOpt,
         };
+        context.AddTo(command);
         command.SetAction((parse, ct) => Terminal.GuardAsync(() => ExecuteAsync(
             parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt), parse.GetValue(yesOpt),
-            new RunOutputOptions(parse.GetValue(noArchiveOpt), parse.GetValue(jsonOpt), parse.GetValue(junitOpt), parse.GetValue(reproducibleOpt)), ct)));
+            new RunOutputOptions(parse.GetValue(noArchiveOpt), parse.GetValue(jsonOpt), parse.GetValue(junitOpt), parse.GetValue(reproducibleOpt), context.Read(parse)), ct)));
         return command;
     }
 
@@ -136,6 +138,13 @@ internal static class RunCommand
             return ExitCodes.UnsafePlan;
         }
 
+        // Each bench instrument's calibration, checked on today's date before anything is connected.
+        var calibrations = CalibrationCheck.Assess(bench, DateOnly.FromDateTime(TimeProvider.System.GetUtcNow().UtcDateTime));
+        if (!RecordOptions.CheckCalibration(calibrations, bench.CalibrationWarningDays, outputs.Record.OverdueReason))
+        {
+            return ExitCodes.InvalidInput;
+        }
+
         if (!bench.IsSimulated)
         {
             foreach (var note in ShuntSweep.Reporting.SafetyNotes.General)
@@ -156,15 +165,17 @@ internal static class RunCommand
             }
         }
 
-        var clock = BenchHost.ClockFor(bench);
+        // A resumed simulated run continues its own virtual time; a new one starts it from the wall clock (the fixed epoch under --reproducible).
+        var clock = BenchHost.ClockFor(bench, previous?.Start ?? BenchHost.VirtualStart(outputs.Reproducible));
         var start = previous?.Start ?? clock.Now();
         var downtime = resume is not null && !bench.IsSimulated && EventLog.LastTime(resume) is { } last ? TimeProvider.System.GetUtcNow() - last : (TimeSpan?)null;
-        return await RunLockedAsync(sequence, sequencePath, bench, benchPath, benchFile, plan, clock, start, outDir, seed, answers, resume, archive, yes, outputs, previous, downtime, ct);
+        var record = new RecordContext(outputs.Record.Context(bench), calibrations, calibrations.Any(c => c.State == CalibrationState.Overdue) ? outputs.Record.OverdueReason : null);
+        return await RunLockedAsync(sequence, sequencePath, bench, benchPath, benchFile, plan, clock, start, outDir, seed, answers, resume, archive, yes, outputs, previous, downtime, record, ct);
     }
 
     private static async Task<int> RunLockedAsync(
         Sequence sequence, string sequencePath, BenchDescription bench, string? benchPath, string benchFile, RunPlan plan, IBenchClock clock, DateTimeOffset start,
-        string outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, RunManifest? previous, TimeSpan? downtime, CancellationToken ct)
+        string outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, RunManifest? previous, TimeSpan? downtime, RecordContext record, CancellationToken ct)
     {
         using var traffic = TrafficLog.Create(Path.Combine(outDir, "traffic.jsonl"), clock.Time, start);
         await using var display = new RunDisplay(sequence.Title, plan.Steps.Count);
@@ -202,7 +213,15 @@ internal static class RunCommand
                 identities,
                 start,
                 seed,
-                bench.IsSimulated) { FuseDerating = sequence.Limits.FuseDerating }.Write(outDir);
+                bench.IsSimulated)
+            {
+                FuseDerating = sequence.Limits.FuseDerating,
+                ProcedureId = sequence.Id,
+                ProcedureVersion = sequence.Version,
+                Calibrations = record.Calibrations,
+                CalibrationOverride = record.Override,
+                Context = record.Context,
+            }.Write(outDir);
             new LaunchRecord(answers is null ? null : Path.GetFullPath(answers), yes, archive).Write(outDir);
         }
 
@@ -229,6 +248,15 @@ internal static class RunCommand
         CharacterisationResult? result;
         using (journal)
         {
+            if (record.Override is { } reason)
+            {
+                journal.Event("calibration-override", new Dictionary<string, object?>
+                {
+                    ["reason"] = reason,
+                    ["overdue"] = string.Join(", ", record.Calibrations.Where(c => c.State == CalibrationState.Overdue).Select(c => $"{c.Role} {c.Calibration!.Certificate} due {c.Calibration.Due:yyyy-MM-dd}")),
+                });
+            }
+
             display.Report(new RunProgress(resumeAt, plan.Steps.Count, "connecting"));
             await display.StartAsync();
             var runner = new Runner(instruments, bench, sequence, plan, op, journal, start, display, new RunnerOptions(ConfirmBeforeOutputs: !bench.IsSimulated, Downtime: downtime, ConcurrentQueries: !bench.IsSimulated));
@@ -376,6 +404,6 @@ internal static class RunCommand
         }
     }
 
-    /// <summary>What a run writes besides its run directory, and how.</summary>
-    private sealed record RunOutputOptions(bool NoArchive, string? Json, string? Junit, bool Reproducible);
+    /// <summary>What a run writes besides its run directory, and how, and the context its record states.</summary>
+    private sealed record RunOutputOptions(bool NoArchive, string? Json, string? Junit, bool Reproducible, RecordInput Record);
 }

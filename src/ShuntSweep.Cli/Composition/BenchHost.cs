@@ -33,8 +33,16 @@ internal static class BenchHost
     }
 
     /// <summary>The clock a bench runs on: virtual for a fully simulated bench, the system clock otherwise.</summary>
-    public static IBenchClock ClockFor(BenchDescription bench) =>
-        bench.IsSimulated ? new VirtualBenchClock(new VirtualTimeProvider()) : new RealBenchClock(TimeProvider.System);
+    public static IBenchClock ClockFor(BenchDescription bench, DateTimeOffset? virtualStart = null) =>
+        bench.IsSimulated ? new VirtualBenchClock(new VirtualTimeProvider(virtualStart ?? VirtualTimeProvider.DefaultStart)) : new RealBenchClock(TimeProvider.System);
+
+    /// <summary>Where a simulated run's virtual time starts: the wall clock now (whole seconds), so that simulated runs are dated when they ran;
+    /// the fixed virtual epoch under <c>--reproducible</c>, so that the same run gives the same files.</summary>
+    public static DateTimeOffset VirtualStart(bool reproducible)
+    {
+        var now = TimeProvider.System.GetUtcNow();
+        return reproducible ? VirtualTimeProvider.DefaultStart : new DateTimeOffset(now.Ticks - (now.Ticks % TimeSpan.TicksPerSecond), TimeSpan.Zero);
+    }
 
     /// <summary>Connects every instrument of <paramref name="bench"/>, starting the in-process simulator when the bench uses one.</summary>
     public static async Task<InstrumentBench> ConnectAsync(BenchDescription bench, IBenchClock clock, int seed, TrafficLog? traffic, CancellationToken ct)

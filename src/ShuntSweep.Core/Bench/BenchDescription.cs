@@ -31,7 +31,8 @@ public enum InstrumentRole
 /// <param name="Role">What the instrument does.</param>
 /// <param name="Resource">Its VISA-syntax resource string, for example <c>TCPIP::192.0.2.10::5025::SOCKET</c> or <c>SIM::supply</c>.</param>
 /// <param name="Settings">The whole mapping of the instrument, for the instrument layer to read strictly.</param>
-public sealed record InstrumentEntry(InstrumentRole Role, string Resource, MappingReader Settings);
+/// <param name="Calibration">The instrument's calibration certificate and due date, when the bench file records them.</param>
+public sealed record InstrumentEntry(InstrumentRole Role, string Resource, MappingReader Settings, InstrumentCalibration? Calibration = null);
 
 /// <summary>The electrical limits and settings of the supply side of the loop.</summary>
 /// <param name="Voltage">The voltage the supply is set to during a sweep.</param>
@@ -68,4 +69,7 @@ public sealed record BenchDescription(
 {
     /// <summary>True when every instrument is in-process simulated (resource <c>SIM::…</c>).</summary>
     public bool IsSimulated => Instruments.Values.All(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase));
+
+    /// <summary>How many days before an instrument's calibration due date a run warns. The default value is 30.</summary>
+    public int CalibrationWarningDays { get; init; } = 30;
 }

@@ -70,7 +70,7 @@ public static class BenchReader
 
             var settings = value.AsMapping();
             var resource = settings.Text("resource");
-            instruments[role] = new InstrumentEntry(role, resource, settings);
+            instruments[role] = new InstrumentEntry(role, resource, settings, InstrumentCalibration.Read(settings));
         }
 
         foreach (var needed in new[] { InstrumentRole.Supply, InstrumentRole.Load, InstrumentRole.DropMeter })
@@ -82,9 +82,10 @@ public static class BenchReader
         }
 
         var allowances = ReadAllowances(doc);
+        var warningDays = doc.IntOr("calibrationWarningDays", 30, 0, 3660);
         var simulation = doc.Mapping("simulation");
         doc.Finish();
-        return new BenchDescription(name, path, uut, supply, load, wiring, instruments, simulation, allowances);
+        return new BenchDescription(name, path, uut, supply, load, wiring, instruments, simulation, allowances) { CalibrationWarningDays = warningDays };
     }
 
     /// <summary>Reads the optional <c>uncertainty</c> section (drop meter and reference specifications, thermal EMF and lead allowances) and <c>ambient</c>.</summary>

@@ -24,10 +24,30 @@ public sealed record RunManifest(
     /// <summary>The fraction of a jack's fuse rating the sequence allowed (its fuseDerating limit), for plots that mark it; null in older manifests.</summary>
     public double? FuseDerating { get; init; }
 
+    /// <summary>The procedure's identifier (the sequence's <c>id:</c> key), when given.</summary>
+    public string? ProcedureId { get; init; }
+
+    /// <summary>The procedure's version (the sequence's <c>version:</c> key), when given.</summary>
+    public string? ProcedureVersion { get; init; }
+
+    /// <summary>Each bench instrument's calibration certificate and due date as checked at the start of the run.</summary>
+    public IReadOnlyList<Bench.CalibrationStatus>? Calibrations { get; init; }
+
+    /// <summary>Why the run went ahead with an instrument past its calibration due date (given by the operator); null when none was overdue.</summary>
+    public string? CalibrationOverride { get; init; }
+
+    /// <summary>The context of the run that the calibration record states: operator, customer, conditions, as-found or as-left.</summary>
+    public RunContext? Context { get; init; }
+
     /// <summary>The manifest's file name inside a run directory.</summary>
     public const string FileName = "manifest.json";
 
-    private static readonly JsonSerializerOptions Options = new() { PropertyNamingPolicy = JsonNamingPolicy.CamelCase, WriteIndented = true };
+    private static readonly JsonSerializerOptions Options = new()
+    {
+        PropertyNamingPolicy = JsonNamingPolicy.CamelCase,
+        WriteIndented = true,
+        Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter(JsonNamingPolicy.CamelCase) },
+    };
 
     /// <summary>The SHA-256 of a file's bytes, in lower-case hex.</summary>
     public static string HashFile(string path) => Convert.ToHexStringLower(SHA256.HashData(File.ReadAllBytes(path)));
@@ -45,3 +65,12 @@ public sealed record RunManifest(
         JsonSerializer.Deserialize<RunManifest>(File.ReadAllText(Path.Combine(directory, FileName)), Options)
         ?? throw new InvalidDataException($"{Path.Combine(directory, FileName)} is empty.");
 }
+
+/// <summary>Who ran a calibration, for whom, under which conditions, and whether it records the UUT as found or as left.</summary>
+/// <param name="Operator">The person who ran it.</param>
+/// <param name="Customer">The customer the UUT belongs to.</param>
+/// <param name="Laboratory">The laboratory's name and address, as the certificate heads it.</param>
+/// <param name="AmbientCelsius">The ambient temperature during the run, in °C.</param>
+/// <param name="RelativeHumidityPercent">The relative humidity during the run, in %.</param>
+/// <param name="Condition">Whether the run records the UUT as it arrived (<c>as-found</c>) or as it leaves after adjustment (<c>as-left</c>).</param>
+public sealed record RunContext(string? Operator, string? Customer, string? Laboratory, double? AmbientCelsius, double? RelativeHumidityPercent, string? Condition);

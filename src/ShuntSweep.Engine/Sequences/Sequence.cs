@@ -11,6 +11,12 @@ public sealed record Sequence(string Title, string File, SafetyLimits Limits, IR
 {
     /// <summary>The bench file the sequence is written for (its <c>bench:</c> key, relative to the sequence file), used when no bench is given.</summary>
     public string? Bench { get; init; }
+
+    /// <summary>The procedure's identifier as the lab controls it (the sequence's <c>id:</c> key, for example <c>WI-CUR-018</c>), for the calibration record.</summary>
+    public string? Id { get; init; }
+
+    /// <summary>The procedure's version (the sequence's <c>version:</c> key), for the calibration record.</summary>
+    public string? Version { get; init; }
 }
 
 /// <summary>The safety limits a sequence runs under.</summary>

@@ -87,6 +87,8 @@ public static class SequenceReader
         var title = doc.Text("sequence");
         doc.StringOr("description", null);
         var bench = doc.StringOr("bench", null) is { } b ? Path.Combine(Path.GetDirectoryName(doc.File) ?? string.Empty, b) : null;
+        var procedureId = doc.StringOr("id", null);
+        var procedureVersion = doc.StringOr("version", null);
         doc.Optional("parameters");
 
         var defaultsMap = doc.Mapping("defaults");
@@ -133,7 +135,7 @@ public static class SequenceReader
         }
 
         doc.Finish();
-        return new Sequence(title, doc.File, limits, items) { Bench = bench };
+        return new Sequence(title, doc.File, limits, items) { Bench = bench, Id = procedureId, Version = procedureVersion };
     }
 
     private static SweepItem ReadSweep(NodeReader node, PointSettings defaults, PointBudget budget)

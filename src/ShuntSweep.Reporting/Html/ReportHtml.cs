@@ -26,6 +26,7 @@ internal static class ReportHtml
         html.Append("<main>\n");
         Outcome(html, run);
         VerdictBanner(html, run.Result);
+        Record(html, run);
         Uut(html, run);
         Bench(html, run, showPaths);
         Safety(html, run);
@@ -134,6 +135,77 @@ internal static class ReportHtml
 
         return $"<strong>{E(Verdicts.Words(Verdicts.Of(result, r)))}</strong>"
             + (parts.Count > 0 ? $"<br><span class=\"muted\">{E(string.Join("; ", parts))}</span>" : "<br><span class=\"muted\">no specification to judge against</span>");
+    }
+
+    private static void Record(StringBuilder html, RunRecords run)
+    {
+        var m = run.Manifest;
+        if (m is null)
+        {
+            return;
+        }
+
+        static string Or(string? text) => string.IsNullOrWhiteSpace(text) ? "<span class=\"muted\">not stated</span>" : E(text);
+        var c = m.Context;
+        html.Append("<section id=\"record\"><h2>Calibration record</h2>");
+        Facts(html,
+        [
+            ("Report id", $"<span id=\"report-id\">{E(run.ReportId)}</span>"),
+            ("Laboratory", Or(c?.Laboratory)),
+            ("Customer", Or(c?.Customer)),
+            ("Operator", Or(c?.Operator)),
+            ("Procedure", m.ProcedureId is null ? "<span class=\"muted\">no id: sequence " + E(Path.GetFileName(m.SequenceFile)) + "</span>" : E($"{m.ProcedureId}{(m.ProcedureVersion is { } v ? $", version {v}" : string.Empty)}")),
+            ("Condition of the UUT", Or(c?.Condition)),
+            ("Ambient temperature", c?.AmbientCelsius is { } t ? E($"{N(t, "0.0")} °C") + (m.Simulated ? " <span class=\"muted\">(simulated)</span>" : string.Empty) : Or(null)),
+            ("Relative humidity", c?.RelativeHumidityPercent is { } h ? E($"{N(h, "0")} %") : Or(null)),
+            ("Measured", E(m.Start.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture))),
+            ("Software", E(m.Software)),
+        ]);
+        if (m.Calibrations is { Count: > 0 } cals)
+        {
+            html.Append("<h3>Calibration of the bench instruments</h3>");
+            Table(html, "data", ["role", "resource", "certificate", "calibration due", "on the day of the run"],
+                cals.Select(k => (IReadOnlyList<string>)
+                [
+                    E(k.Role), E(k.Resource), k.Calibration is { } cal ? E(cal.Certificate) : Or(null),
+                    k.Calibration is { } d ? E(d.Due.ToString("yyyy-MM-dd", CultureInfo.InvariantCulture)) : "—",
+                    E(k.State switch
+                    {
+                        Core.Bench.CalibrationState.Current => "✓ within its calibration interval",
+                        Core.Bench.CalibrationState.DueSoon => $"⚠ due in {k.DaysLeft} day(s)",
+                        Core.Bench.CalibrationState.Overdue => $"✗ overdue by {-k.DaysLeft} day(s)",
+                        _ => "– not recorded in the bench file",
+                    }),
+                ]));
+        }
+        else if (m.Simulated)
+        {
+            html.Append("<p class=\"note\">Simulated instruments: no calibration applies.</p>");
+        }
+
+        if (m.CalibrationOverride is { } reason)
+        {
+            html.Append("<div class=\"banner stop\" id=\"calibration-override\"><strong>Run with an instrument past its calibration due date.</strong> Reason given: ").Append(E(reason)).Append("</div>");
+        }
+
+        html.Append("<h3>Approval</h3>");
+        if (run.Approval is { } a)
+        {
+            html.Append("<div class=\"approval\" id=\"approval\">");
+            Facts(html,
+            [
+                ("Approved by", E(a.Approver) + (a.Role is { } r ? E($", {r}") : string.Empty)),
+                ("Approved at", E(a.Time.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture))),
+                ("Sealed", "SHA-256 of " + E(string.Join(", ", Approval.Sealed)) + " in approval.json; <code>shuntsweep verify</code> detects any later change."),
+            ]);
+            html.Append("</div>");
+        }
+        else
+        {
+            html.Append("<p id=\"approval\"><strong>Not yet approved.</strong> <span class=\"muted\">Approve it with shuntsweep endorse DIR --by NAME, which seals the record's files.</span></p>");
+        }
+
+        html.Append("</section>\n");
     }
 
     private static void Uut(StringBuilder html, RunRecords run)

@@ -73,15 +73,18 @@ internal sealed class RecordOptions
     public static bool CheckCalibration(IReadOnlyList<CalibrationStatus> calibrations, int warningDays, string? overdueReason)
     {
         ArgumentNullException.ThrowIfNull(calibrations);
+        var unrecorded = calibrations.Where(c => c.State == CalibrationState.NotRecorded).Select(c => c.Role).ToList();
+        if (unrecorded.Count > 0)
+        {
+            Terminal.Note("note", $"the bench file records no calibration for: {string.Join(", ", unrecorded)}; give each calibration: {{ certificate: ID, due: YYYY-MM-DD }} so that the record can state it.");
+        }
+
         foreach (var c in calibrations)
         {
             switch (c.State)
             {
                 case CalibrationState.DueSoon:
                     Terminal.Warn($"the {c.Role} ({c.Resource}) is due for calibration on {c.Calibration!.Due.ToString("yyyy-MM-dd", CultureInfo.InvariantCulture)}, in {c.DaysLeft} day(s) (certificate {c.Calibration.Certificate}; the bench warns {warningDays} days ahead).");
-                    break;
-                case CalibrationState.NotRecorded:
-                    Terminal.Note("note", $"the bench file records no calibration for the {c.Role} ({c.Resource}); add calibration: {{ certificate: ID, due: YYYY-MM-DD }} to it so that the record can state it.");
                     break;
                 case CalibrationState.Overdue when overdueReason is null:
                     Terminal.Fail(

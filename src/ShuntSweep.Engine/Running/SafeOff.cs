@@ -35,20 +35,45 @@ public static class SafeOff
 
     private static async Task<OffCheck> AttemptAsync(string role, string resource, TimeProvider time, Func<CancellationToken, Task<bool>> switchOff)
     {
+        // Switching off is idempotent: an attempt that did not confirm (a command the instrument missed, an error on the way) is made again until the deadline.
         using var deadline = new CancellationTokenSource(Deadline, time);
-        try
+        var started = time.GetTimestamp();
+        var problem = $"no confirmation within {Deadline.TotalSeconds:0} s (it does not answer)";
+        while (true)
         {
-            // WaitAsync bounds the attempt even where a driver does not honour the token.
-            var off = await switchOff(deadline.Token).WaitAsync(Deadline, time, CancellationToken.None);
-            return new OffCheck(role, resource, off, off ? null : "it still reports its output on");
-        }
-        catch (Exception ex) when (ex is OperationCanceledException or TimeoutException)
-        {
-            return new OffCheck(role, resource, false, $"no confirmation within {Deadline.TotalSeconds:0} s (it does not answer)");
-        }
-        catch (Exception ex) when (ex is not OutOfMemoryException)
-        {
-            return new OffCheck(role, resource, false, ex.Message);
+            var left = Deadline - time.GetElapsedTime(started);
+            if (left <= TimeSpan.Zero)
+            {
+                return new OffCheck(role, resource, false, problem);
+            }
+
+            try
+            {
+                // WaitAsync bounds the attempt even where a driver does not honour the token.
+                if (await switchOff(deadline.Token).WaitAsync(left, time, CancellationToken.None))
+                {
+                    return new OffCheck(role, resource, true, null);
+                }
+
+                problem = "it still reports its output on";
+            }
+            catch (Exception ex) when (ex is OperationCanceledException or TimeoutException)
+            {
+                return new OffCheck(role, resource, false, $"no confirmation within {Deadline.TotalSeconds:0} s (it does not answer)");
+            }
+            catch (Exception ex) when (ex is not OutOfMemoryException)
+            {
+                problem = ex.Message;
+            }
+
+            try
+            {
+                await Task.Delay(TimeSpan.FromMilliseconds(100), time, deadline.Token);
+            }
+            catch (OperationCanceledException)
+            {
+                return new OffCheck(role, resource, false, problem);
+            }
         }
     }
 }

@@ -225,6 +225,11 @@ public static class SequenceReader
         var rateNode = map.Required("rate");
         var rate = rateNode.AsQuantity(SiUnit.Hertz, Allowed.UpTo(PlanLimits.MaxHoldRateHz, SiUnit.Hertz));
         var samples = duration.TotalSeconds * rate;
+        if (!(samples >= 1))
+        {
+            throw rateNode.Error($"{map.What}: {rateNode.AsString()} over {durationNode.AsString()} takes no sample; the rate must be at least one sample per hold ({1 / duration.TotalSeconds:G3} Hz here).");
+        }
+
         if (samples > PlanLimits.MaxSamples)
         {
             throw rateNode.Error($"{map.What}: {durationNode.AsString()} at {rateNode.AsString()} is {samples:0} samples; a plan records at most {PlanLimits.MaxSamples} samples.");

@@ -76,9 +76,10 @@ public sealed class DialectBenchTests
     public async Task CtrlC_MidRun_EndsInterrupted_WithOutputsOffInEachDialect(string file)
     {
         await using var served = await Served.StartAsync(file, speed: 1);
-        var run = await served.RunAsync(TimeSpan.FromSeconds(60), null, cancelAfter: TimeSpan.FromSeconds(1));
-        Assert.True(run.Outcome.End == RunEnd.Interrupted, $"{run.Outcome.End}: {run.Outcome.Message}");
-        Assert.True(run.Outcome.OutputsConfirmedOff);
+        var traffic = Path.Combine(Some.TempDirectory(), "traffic.jsonl");
+        var run = await served.RunAsync(TimeSpan.FromSeconds(60), traffic, cancelAfter: TimeSpan.FromSeconds(1));
+        Assert.True(run.Outcome.End == RunEnd.Interrupted, $"{run.Outcome.End}: {run.Outcome.Message} {Unconfirmed(run.Outcome)}\n" + string.Join("\n", File.ReadAllLines(traffic).TakeLast(30)));
+        Assert.True(run.Outcome.OutputsConfirmedOff, Unconfirmed(run.Outcome));
         Assert.Equal((false, false), served.Simulator.OutputStates());
     }
 
@@ -92,6 +93,9 @@ public sealed class DialectBenchTests
         Assert.True(run.Outcome.OutputsConfirmedOff);
         Assert.Equal((false, false), served.Simulator.OutputStates());
     }
+
+    private static string Unconfirmed(RunOutcome outcome) =>
+        string.Join("; ", outcome.Off.Where(o => !o.Confirmed).Select(o => $"{o.Role} {o.Resource}: {o.Problem}"));
 
     /// <summary>A dialect bench served on loopback ports, with the bench file that drives it.</summary>
     private sealed class Served : IAsyncDisposable

@@ -49,7 +49,7 @@ internal sealed class ScpiSession : IAsyncDisposable
         return AcceptAtAsync(data, now, now, cancellationToken);
     }
 
-    /// <summary>Takes bytes that arrived between the wall-clock timestamps <paramref name="earliest"/> (when the read began) and <paramref name="latest"/>.</summary>
+    /// <summary>Takes bytes that arrived between the wall-clock timestamps <paramref name="earliest"/> (the earliest they can have arrived) and <paramref name="latest"/>.</summary>
     private async ValueTask<bool> AcceptAtAsync(ReadOnlyMemory<byte> data, long earliest, long latest, CancellationToken cancellationToken)
     {
         for (var i = 0; i < data.Length && !_closed; i++)
@@ -91,14 +91,19 @@ internal sealed class ScpiSession : IAsyncDisposable
         var buffer = new byte[4096];
         try
         {
+            // Bytes a read returns may have arrived at any time since the previous read returned (the socket buffers them while
+            // earlier commands execute), so that instant, not the start of this read, is their earliest possible arrival.
+            var previous = TimeProvider.System.GetTimestamp();
             while (!_closed)
             {
-                var reading = TimeProvider.System.GetTimestamp();
                 var n = await input.ReadAsync(buffer, _stop.Token);
-                if (n == 0 || !await AcceptAtAsync(buffer.AsMemory(0, n), reading, TimeProvider.System.GetTimestamp(), _stop.Token))
+                var returned = TimeProvider.System.GetTimestamp();
+                if (n == 0 || !await AcceptAtAsync(buffer.AsMemory(0, n), previous, returned, _stop.Token))
                 {
                     return;
                 }
+
+                previous = returned;
             }
         }
         catch (OperationCanceledException) when (_stop.IsCancellationRequested)

@@ -8,15 +8,16 @@ namespace ShuntSweep.Analysis;
 /// <summary>Characterises whatever a run measured, also when it stopped early: ranges that cannot be fitted (too few points) are left out with the reason instead of failing the whole analysis.</summary>
 public static class PartialCharacterisation
 {
-    /// <summary>Analyses every range of <paramref name="samples"/> that can be; returns null when none can, and adds to <paramref name="notes"/> why each left-out range was.</summary>
-    public static CharacterisationResult? Analyse(IReadOnlyList<Sample> samples, UutDescription? uut, ICollection<string> notes, AnalysisOptions? options = null)
+    /// <summary>Analyses every range of <paramref name="samples"/> that can be (a result without ranges when none can, so that what was measured is still
+    /// reported) and adds to <paramref name="notes"/> why each left-out range was.</summary>
+    public static CharacterisationResult Analyse(IReadOnlyList<Sample> samples, UutDescription? uut, ICollection<string> notes, AnalysisOptions? options = null)
     {
         ArgumentNullException.ThrowIfNull(samples);
         ArgumentNullException.ThrowIfNull(notes);
         if (samples.Count == 0)
         {
             notes.Add("no sample was measured.");
-            return null;
+            return Nothing;
         }
 
         try
@@ -41,7 +42,7 @@ public static class PartialCharacterisation
 
             if (usable.Count == 0)
             {
-                return null;
+                return Nothing;
             }
 
             try
@@ -51,10 +52,12 @@ public static class PartialCharacterisation
             catch (Exception together) when (IsDataProblem(together))
             {
                 notes.Add($"the ranges could not be analysed together: {together.Message}");
-                return null;
+                return Nothing;
             }
         }
     }
+
+    private static CharacterisationResult Nothing => new([]);
 
     private static bool IsDataProblem(Exception e) => e is ArgumentException or FitFailedException or InvalidDataException;
 }

@@ -227,7 +227,7 @@ internal static class SimulationReader
         }
 
         var firmware = map?.StringOr("firmware", "1.0") ?? "1.0";
-        var readingTime = map?.QuantityOr("readingTime", SiUnit.Second, 0.3, Allowed.Positive(SiUnit.Second)) ?? 0.3;
+        var readingTime = map?.QuantityOr("readingTime", SiUnit.Second, 0.3, Allowed.UpTo(60, SiUnit.Second)) ?? 0.3;
         map?.Finish();
         return new UutModel(description, jacks, ranges, firmware, readingTime);
     }

@@ -9,7 +9,7 @@ namespace ShuntSweep.Cli.Tests;
 /// <summary>No input reaches a stack trace: bad files, directories and archives end in a clean exit code with a message.</summary>
 public sealed partial class BadInputTests
 {
-    /// <summary>Cases per shipped file; nine files make 1 350 cases, a few seconds in all.</summary>
+    /// <summary>Cases per shipped file (sequences, simulated benches and profiles, about 20 files).</summary>
     private const int CasesPerFile = 150;
 
     private static readonly string[] WeirdNumbers = ["0", "-1", "-0.5", "1e9", "1e308", "1e-300", "NaN", ".inf", "-.inf", "-273.16", "999999999999", "2147483648", "-2147483649", "1e-9", "7000000", "00", "0x10"];
@@ -70,33 +70,62 @@ public sealed partial class BadInputTests
         Assert.Equal(2, await Cli.RunStrictAsync("plan", Repo.File("sequences/ci-smoke.yaml"), "--bench", bench));
     }
 
-    /// <summary>Every shipped sequence and simulated bench, mutated at random (numbers, units, lines, junk characters, bad bytes, truncation),
-    /// is planned through the command line: each case ends in exit 0 (the file still made sense), 2 (invalid input) or 3 (unsafe plan),
-    /// never in an exception.</summary>
+    /// <summary>Every shipped sequence, simulated bench and instrument profile, mutated at random (numbers, units, lines, junk characters,
+    /// bad bytes, truncation), is read through the command line (sequences and benches planned against their partner, profiles checked):
+    /// each case ends in exit 0 (the file still made sense), 2 (invalid input) or 3 (unsafe plan), never in an exception, and every
+    /// refusal as invalid input names a file it read, so that a crash mapped to exit 2 cannot pass for a clean refusal.</summary>
     [Fact]
-    public async Task MutatedShippedFiles_EndInACleanExitCode_NeverAnException()
+    public async Task MutatedShippedFiles_EndInACleanExitCode_NamingTheFile_NeverAnException()
     {
-        var files = Repo.Files("sequences", "*.yaml").Select(f => (File: f, IsBench: false))
-            .Concat(Repo.Files("simulators", "*.yaml").Select(f => (File: f, IsBench: true)))
+        var files = Repo.Files("sequences", "*.yaml").Select(f => (File: f, Kind: "sequences"))
+            .Append((File: Repo.File("bench/full-characterisation.yaml"), Kind: "sequences"))
+            .Concat(Repo.Files("simulators", "*.yaml").Select(f => (File: f, Kind: "simulators")))
+            .Concat(Repo.Files("profiles", "*.yaml").Select(f => (File: f, Kind: "profiles")))
             .ToList();
-        var dir = Some.TempDirectory();
+
+        // A copy of the repository's layout, so that a mutated bench still finds its profiles by their relative paths.
+        var root = Some.TempDirectory();
+        foreach (var kind in new[] { "sequences", "simulators", "profiles" })
+        {
+            Directory.CreateDirectory(Path.Combine(root, kind));
+        }
+
+        foreach (var profile in Repo.Files("profiles", "*.yaml"))
+        {
+            File.Copy(profile, Path.Combine(root, "profiles", Path.GetFileName(profile)));
+        }
+
         var exits = new Dictionary<int, int>();
         var cases = 0;
-        foreach (var (file, isBench) in files)
+        var positioned = 0;
+        foreach (var (file, kind) in files)
         {
             var original = File.ReadAllBytes(file);
-            var partner = isBench ? SequenceFor(file) : BenchFor(file);
+            var mutated = Path.Combine(root, kind, "mutated-" + Path.GetFileName(file));
+            var args = kind switch
+            {
+                "sequences" => new[] { "plan", mutated, "--bench", BenchFor(file) },
+                "simulators" => ["plan", SequenceFor(file), "--bench", mutated],
+                _ => ["check-profile", mutated],
+            };
             var mutation = Gen.Select(Gen.Int[0, 8], Gen.Int[0, int.MaxValue], Gen.Int[0, int.MaxValue]).Array[1, 3];
             await mutation.SampleAsync(
                 async steps =>
                 {
                     var bytes = steps.Aggregate(original, (text, s) => Mutate(text, s.Item1, s.Item2, s.Item3));
-                    var mutated = Path.Combine(dir, Path.GetFileName(file));
                     await File.WriteAllBytesAsync(mutated, bytes, TestContext.Current.CancellationToken);
-                    var exit = isBench
-                        ? await Cli.RunStrictAsync("plan", partner, "--bench", mutated)
-                        : await Cli.RunStrictAsync("plan", mutated, "--bench", partner);
-                    Assert.True(exit is 0 or 2 or 3, $"{Path.GetFileName(file)} mutated by {string.Join(", ", steps)} ended with exit {exit}");
+                    var (exit, err) = await Cli.RunStrictCapturingErrorAsync(args);
+                    var what = $"{Path.GetFileName(file)} mutated by {string.Join(", ", steps)}";
+                    Assert.True(exit is 0 or 2 or 3, $"{what} ended with exit {exit}: {err}");
+                    if (exit == 2)
+                    {
+                        Assert.True(args.Skip(1).Any(a => err.Contains(Path.GetFileName(a), StringComparison.Ordinal)), $"{what} was refused without naming a file: {err}");
+                        if (FilePosition().IsMatch(err))
+                        {
+                            Interlocked.Increment(ref positioned);
+                        }
+                    }
+
                     lock (exits)
                     {
                         exits[exit] = exits.GetValueOrDefault(exit) + 1;
@@ -107,11 +136,16 @@ public sealed partial class BadInputTests
                 threads: 1);
         }
 
-        TestContext.Current.TestOutputHelper?.WriteLine($"{cases} mutated files planned: {string.Join(", ", exits.OrderBy(e => e.Key).Select(e => $"exit {e.Key}: {e.Value}"))}");
+        var refused = exits.GetValueOrDefault(2);
+        TestContext.Current.TestOutputHelper?.WriteLine(
+            $"{files.Count} files, {cases} mutated cases: {string.Join(", ", exits.OrderBy(e => e.Key).Select(e => $"exit {e.Key}: {e.Value}"))}; {positioned} of {refused} refusals give line:column");
         Assert.Equal(files.Count * CasesPerFile, cases);
 
         // Most mutations break something: the test would prove little if nearly all of them still planned cleanly.
-        Assert.True(exits.GetValueOrDefault(2) > cases / 3, $"only {exits.GetValueOrDefault(2)} of {cases} cases were refused as invalid input");
+        Assert.True(refused > cases / 3, $"only {refused} of {cases} cases were refused as invalid input");
+
+        // A refusal without a position is for a file that cannot be read as text at all (not UTF-8, empty); most give line and column.
+        Assert.True(positioned > refused * 3 / 4, $"only {positioned} of {refused} refusals gave a line and column");
     }
 
     private static byte[] Mutate(byte[] bytes, int kind, int a, int b)
@@ -166,14 +200,20 @@ public sealed partial class BadInputTests
         return Encoding.UTF8.GetBytes(text[..m.Index] + replacement + text[(m.Index + m.Length)..]);
     }
 
+    /// <summary>The bench a shipped sequence names in its <c>bench:</c> key, else the handheld TW-18 bench.</summary>
     private static string BenchFor(string sequence)
     {
-        var line = File.ReadLines(sequence).FirstOrDefault(l => l.StartsWith("# bench:", StringComparison.Ordinal));
-        return Repo.File(line is null ? "simulators/handheld-tarnwell-tw18.yaml" : line["# bench:".Length..].Trim());
+        var line = File.ReadLines(sequence).FirstOrDefault(l => l.StartsWith("bench:", StringComparison.Ordinal));
+        var relative = line?["bench:".Length..].Split('#')[0].Trim();
+        return relative is null ? Repo.File("simulators/handheld-tarnwell-tw18.yaml") : Path.GetFullPath(Path.Combine(Path.GetDirectoryName(sequence)!, relative));
     }
 
+    /// <summary>A shipped sequence written for <paramref name="bench"/>, else the CI smoke sequence.</summary>
     private static string SequenceFor(string bench) =>
         Repo.Files("sequences", "*.yaml").FirstOrDefault(s => Path.GetFileName(BenchFor(s)) == Path.GetFileName(bench)) ?? Repo.File("sequences/ci-smoke.yaml");
+
+    [GeneratedRegex(@"\.yaml:\d+:\d+:")]
+    private static partial Regex FilePosition();
 
     [GeneratedRegex(@"-?\d+(\.\d+)?")]
     private static partial Regex Number();

@@ -26,6 +26,25 @@ internal static class Cli
         }
     }
 
+    /// <summary>As <see cref="RunStrictAsync"/>, and returns what the command wrote to standard error.</summary>
+    public static async Task<(int Exit, string Err)> RunStrictCapturingErrorAsync(params string[] args)
+    {
+        await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
+        var original = Console.Error;
+        using var err = new StringWriter();
+        Console.SetError(err);
+        try
+        {
+            var exit = await ShuntSweepCommandLine.InvokeAsync(args, new System.CommandLine.InvocationConfiguration { EnableDefaultExceptionHandler = false }, TestContext.Current.CancellationToken);
+            return (exit, err.ToString());
+        }
+        finally
+        {
+            Console.SetError(original);
+            OneAtATime.Release();
+        }
+    }
+
     /// <summary>Invokes the command line with <paramref name="args"/> and returns its exit code.</summary>
     /// <remarks>Invocations are serialised: the console is process-wide.</remarks>
     public static async Task<int> RunAsync(params string[] args)

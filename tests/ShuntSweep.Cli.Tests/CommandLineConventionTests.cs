@@ -1,4 +1,6 @@
+using System.Globalization;
 using System.Text.Json.Nodes;
+using System.Text.RegularExpressions;
 using System.Xml;
 using System.Xml.Linq;
 using System.Xml.Schema;
@@ -10,7 +12,7 @@ namespace ShuntSweep.Cli.Tests;
 
 /// <summary>The command line keeps the conventions scripts rely on: results on standard output, errors on standard error, usage errors exit 2
 /// naming the offending token, no hard wrap when piped, and machine-readable summaries that validate against their published schemas.</summary>
-public sealed class CommandLineConventionTests
+public sealed partial class CommandLineConventionTests
 {
     private static readonly string Smoke = Repo.File("sequences/ci-smoke.yaml");
     private static readonly Dictionary<string, string?> NoEnvironment = [];
@@ -144,6 +146,66 @@ public sealed class CommandLineConventionTests
         Assert.Contains("step 1 of the sequence uses range '100uA'", error, StringComparison.Ordinal);
     }
 
+    [Fact]
+    public async Task Plan_ShowsEachJacksSupplyCurrentLimit_TheLargestPlannedCurrentPlusMargin_BelowItsDeratedFuse()
+    {
+        var (exit, output, _) = await Cli.RunProcessAsync(NoEnvironment, "plan", Smoke);
+        Assert.Equal(0, exit);
+
+        // ci-smoke plans at most 60 mA through the mA jack (500 mA fuse) and 8 A through the 10A jack (10 A fuse), derated to 80 %.
+        Assert.Contains("mA jack: current limit 66 mA (largest planned 60 mA + 10 %, at most 80 % of its 500 mA fuse", output, StringComparison.Ordinal);
+        Assert.Contains("10A jack: current limit 8 A (largest planned 8 A + 10 %, at most 80 % of its 10 A fuse", output, StringComparison.Ordinal);
+        Assert.Contains("Supply protection: over-voltage", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task NoArchive_LeavesTheArchiveUntouched()
+    {
+        var archive = Path.Combine(Some.TempDirectory(), "archive.db");
+        var (exit, output, _) = await Cli.RunProcessAsync(
+            new Dictionary<string, string?> { ["SHUNTSWEEP_ARCHIVE"] = archive }, "run", Smoke, "--out", Some.TempDirectory(), "--no-archive");
+        Assert.Equal(0, exit);
+        Assert.Contains("Not archived (--no-archive).", output, StringComparison.Ordinal);
+        Assert.False(File.Exists(archive));
+    }
+
+    [Fact]
+    public async Task CompletedRun_CountsItsStepsTheSameOnScreen_InTheEvents_AndInTheReport()
+    {
+        var dir = Some.TempDirectory();
+        var (exit, output, _) = await Cli.RunProcessAsync(NoEnvironment, "run", Smoke, "--out", dir, "--no-archive");
+        Assert.Equal(0, exit);
+        var said = StepCounts().Match(output);
+        Assert.True(said.Success, output);
+        var (all, measured, other) = (int.Parse(said.Groups[1].Value, CultureInfo.InvariantCulture), int.Parse(said.Groups[2].Value, CultureInfo.InvariantCulture), int.Parse(said.Groups[3].Value, CultureInfo.InvariantCulture));
+        Assert.Equal(all, measured + other);
+        var journalled = File.ReadLines(Path.Combine(dir, "events.jsonl")).Count(l => l.Contains("\"event\":\"step-done\"", StringComparison.Ordinal));
+        Assert.Equal(measured, journalled);
+        var report = await File.ReadAllTextAsync(Path.Combine(dir, "report.html"), TestContext.Current.CancellationToken);
+        Assert.Contains($"{measured} measurement and hold steps journalled", report, StringComparison.Ordinal);
+    }
+
+    private const string ValidJUnit = "<testsuites><testsuite name=\"s\" tests=\"1\" failures=\"0\" errors=\"0\"><testcase name=\"c\" classname=\"k\" time=\"0.5\"/></testsuite></testsuites>";
+
+    /// <summary>The XSD is not vacuous: the smallest valid document passes, and each one-change break of what it promises is refused.</summary>
+    [Theory]
+    [InlineData("", "")]
+    [InlineData("tests=\"1\"", "tests=\"-1\"")]
+    [InlineData("time=\"0.5\"", "time=\"-0.5\"")]
+    [InlineData(" classname=\"k\"", "")]
+    [InlineData("time=\"0.5\"/>", "time=\"0.5\"><failure/><error/></testcase>")]
+    [InlineData("<testcase ", "<case ")]
+    public void JUnitSchema_AcceptsTheValidDocument_AndRefusesEachBreak(string part, string replacement)
+    {
+        var xml = part.Length == 0 ? ValidJUnit : ValidJUnit.Replace(part, replacement, StringComparison.Ordinal);
+        Assert.True(part.Length == 0 || xml != ValidJUnit, "the break did not change the document");
+        var schemas = new XmlSchemaSet();
+        schemas.Add(null, Repo.File("docs/schemas/junit.xsd"));
+        var problems = new List<string>();
+        XDocument.Parse(xml).Validate(schemas, (_, e) => problems.Add(e.Message));
+        Assert.Equal(part.Length != 0, problems.Count > 0);
+    }
+
     private static XDocument ValidateJUnit(string path)
     {
         var schemas = new XmlSchemaSet();
@@ -154,4 +216,7 @@ public sealed class CommandLineConventionTests
         Assert.True(problems.Count == 0, string.Join("; ", problems));
         return xml;
     }
+
+    [GeneratedRegex(@"All (\d+) plan steps completed \((\d+) measurement and hold steps journalled, (\d+) operator and ramp steps\)")]
+    private static partial Regex StepCounts();
 }

@@ -73,6 +73,21 @@ public sealed partial class QuantityFormatterTests
     public void FormatAtResolution_ShowsWholeStepsOfTheMeter(double value, double resolution, string expected) =>
         Assert.Equal(expected, QuantityFormatter.FormatAtResolution(value, resolution, SiUnit.Ampere));
 
+    /// <summary>Values at the ends of the double range (a mutated file gave 6e-306 V) are printed in exponent form instead of overflowing.</summary>
+    [Theory]
+    [InlineData(6.000000000000256E-306, "6e-306 V")]
+    [InlineData(-2.5e-310, "-2.5e-310 V")]
+    [InlineData(1.5e300, "1.5e300 V")]
+    public void Format_AtTheEndsOfTheDoubleRange_UsesAnExponent(double value, string expected) =>
+        Assert.Equal(expected, QuantityFormatter.Format(value, SiUnit.Volt));
+
+    [Fact]
+    public void Format_WithUncertainty_AtTheEndsOfTheDoubleRange_DoesNotOverflow()
+    {
+        Assert.Equal("6.00e-306 V ± 1.0e-307 V", QuantityFormatter.Format(6e-306, 1e-307, SiUnit.Volt));
+        Assert.Equal("1 fV", QuantityFormatter.FormatAtResolution(1e-15, 1e-320, SiUnit.Volt));
+    }
+
     [Fact]
     public void Format_NotANumber_IsADashNotNaN() =>
         Assert.Equal("—", QuantityFormatter.Format(double.NaN, SiUnit.Ampere));

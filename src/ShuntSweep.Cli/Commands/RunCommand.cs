@@ -245,7 +245,7 @@ internal static class RunCommand
         }
 
         RunOutcome outcome;
-        CharacterisationResult? result;
+        CharacterisationResult result;
         using (journal)
         {
             if (record.Override is { } reason)
@@ -280,14 +280,14 @@ internal static class RunCommand
         // They run after the outputs are off and must not be interrupted half-way by the Ctrl-C that ended the run.
         // Under --reproducible every date written is the run's own start (virtual time on a simulated bench), not the wall clock.
         var dating = outputs.Reproducible ? new VirtualTimeProvider(start) : TimeProvider.System;
-        var (recorded, archived) = await RecordAsync(outDir, archive, result is not null, outputs, dating);
+        var (recorded, archived) = await RecordAsync(outDir, archive, outputs, dating);
         if (code == ExitCodes.Success && !recorded)
         {
             code = ExitCodes.RecordFailed;
         }
 
         // A stopped run keeps its own code (4, 5, 130) and a record that failed keeps 6: "outside specification" is said only of a run that completed.
-        if (code == ExitCodes.Success && result?.Verdict == RecordVerdict.Fail)
+        if (code == ExitCodes.Success && result.Verdict == RecordVerdict.Fail)
         {
             code = ExitCodes.CheckFailed;
         }
@@ -321,23 +321,25 @@ internal static class RunCommand
         AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "NOT confirmed off")}. {(simulated ? "Simulated" : "Bench")} time {benchTime.TotalSeconds:0.0} s, wall time {wallTime.TotalSeconds:0.00} s.");
     }
 
-    /// <summary>Fits what was measured as far as it goes and writes <c>result.json</c>; ranges that cannot be fitted are left out and said so (on screen and in the events).</summary>
-    private static CharacterisationResult? Analyse(string outDir, BenchDescription bench, RunJournal journal, RunEnd end)
+    /// <summary>Fits what was measured as far as it goes and writes <c>result.json</c>, also when no range could be fitted; ranges that cannot be
+    /// fitted are left out and said so (on screen and in the events).</summary>
+    private static CharacterisationResult Analyse(string outDir, BenchDescription bench, RunJournal journal, RunEnd end)
     {
         var journalPath = Path.Combine(outDir, RunJournal.JournalFile);
         var samples = JournalCsv.Read(journalPath).Samples;
         var notes = new List<string>();
         var unsettled = EventLog.UnsettledSteps(outDir);
-        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes, new AnalysisOptions { Allowances = bench.Allowances ?? BenchAllowances.None, UnsettledSteps = unsettled });
-        if (result is not null)
+        var result = PartialCharacterisation.Analyse(samples, bench.Uut, notes, new AnalysisOptions { Allowances = bench.Allowances ?? BenchAllowances.None, UnsettledSteps = unsettled })
+            with { RunEnd = end.ToString(), LeftOut = notes };
+        var resultPath = Path.Combine(outDir, "result.json");
+        ResultJson.Write(result, resultPath);
+        if (result.Ranges.Count > 0)
         {
-            result = result with { RunEnd = end.ToString(), LeftOut = notes };
-            var resultPath = Path.Combine(outDir, "result.json");
-            ResultJson.Write(result, resultPath);
             FitCommand.ShowRanges(result);
-            FitCommand.ShowVerdict(result);
-            AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
         }
+
+        FitCommand.ShowVerdict(result);
+        AnsiConsole.MarkupLineInterpolated($"Journal: {journalPath} ({samples.Count} samples). Result: {resultPath}.");
 
         if (notes.Count > 0)
         {
@@ -353,14 +355,8 @@ internal static class RunCommand
     }
 
     /// <summary>Writes the report and the archive entry; a failure is explained (what failed, where the data are, how to finish it later) and never hides how the run ended.</summary>
-    private static async Task<(bool Recorded, string? Archived)> RecordAsync(string outDir, string? archive, bool haveResult, RunOutputOptions outputs, TimeProvider dating)
+    private static async Task<(bool Recorded, string? Archived)> RecordAsync(string outDir, string? archive, RunOutputOptions outputs, TimeProvider dating)
     {
-        if (!haveResult)
-        {
-            Terminal.Note("no report and no archive entry", $"nothing could be fitted. The journal is in {outDir}.");
-            return (true, null);
-        }
-
         var ok = true;
         try
         {

@@ -59,7 +59,7 @@ public static class QuantityFormatter
         }
 
         var place = UncertaintyPlace(uncertainty);
-        var valueText = Math.Abs(value) * Pow10(-place) >= 1e15
+        var valueText = Math.Abs(Times10(value, -place)) >= 1e15
             ? Format(value, unit, MaximumDigits)
             : Render(Scale(value, place), place, unit, zeroPrefixPlace: place + 1);
         return $"{valueText} ± {Render(Scale(uncertainty, place), place, unit, zeroPrefixPlace: place)}";
@@ -94,7 +94,7 @@ public static class QuantityFormatter
             return NotFinite(value, unit);
         }
 
-        if (!double.IsFinite(resolution) || resolution <= 0)
+        if (!double.IsFinite(resolution) || resolution < 1e-300)
         {
             return Format(value, unit);
         }
@@ -150,11 +150,29 @@ public static class QuantityFormatter
     /// <summary>value / 10^place rounded to a whole number (half away from zero), held exactly as digits.</summary>
     private static long Scale(double value, int place)
     {
-        var scaled = Math.Round(place >= 0 ? value / Pow10(place) : value * Pow10(-place), MidpointRounding.AwayFromZero);
+        var scaled = Math.Round(Times10(value, -place), MidpointRounding.AwayFromZero);
         return Math.Abs(scaled) < 1e17 ? (long)scaled : throw new OverflowException($"{value} has too many digits to print at 1e{place}.");
     }
 
     private static double Pow10(int exponent) => Math.Pow(10, exponent);
+
+    /// <summary>value·10^exponent in steps a double can hold, so that a value near the ends of its range (1e-306 at 1e-309) does not pass through infinity.</summary>
+    private static double Times10(double value, int exponent)
+    {
+        while (exponent > 300)
+        {
+            value *= 1e300;
+            exponent -= 300;
+        }
+
+        while (exponent < -300)
+        {
+            value /= 1e300;
+            exponent += 300;
+        }
+
+        return exponent >= 0 ? value * Pow10(exponent) : value / Pow10(-exponent);
+    }
 
     /// <summary>Prints digits·10^place with the engineering prefix of its magnitude; a zero takes the prefix of <paramref name="zeroPrefixPlace"/>.</summary>
     private static string Render(long digits, int place, SiUnit unit, int zeroPrefixPlace)

@@ -1,4 +1,6 @@
 using System.Diagnostics;
+using System.Globalization;
+using System.Text.RegularExpressions;
 using ShuntSweep.Testing;
 using Xunit;
 
@@ -6,7 +8,7 @@ namespace ShuntSweep.Cli.Tests.Served;
 
 /// <summary>The tool against the simulated bench served over TCP in another process, driven through a bench file of socket resources, as a real bench is:
 /// hung and vanished instruments, signals, a killed server, prompts, and resume.</summary>
-public sealed class ServedBenchTests
+public sealed partial class ServedBenchTests
 {
     private const string Sequence = """
         sequence: Served-bench check — TW-18 60mA range
@@ -44,6 +46,21 @@ public sealed class ServedBenchTests
             using var stream = new FileStream(Path.Combine(runDirectory, "events.jsonl"), FileMode.Open, FileAccess.Read, FileShare.ReadWrite);
             using var reader = new StreamReader(stream);
             return reader.ReadToEnd().Split('\n').Count(l => l.Contains("\"step-done\"", StringComparison.Ordinal));
+        }
+        catch (IOException)
+        {
+            return 0;
+        }
+    }
+
+    /// <summary>Data rows of the run's journal so far (its header left out).</summary>
+    private static int SamplesJournaled(string runDirectory)
+    {
+        try
+        {
+            using var stream = new FileStream(Path.Combine(runDirectory, "journal.csv"), FileMode.Open, FileAccess.Read, FileShare.ReadWrite);
+            using var reader = new StreamReader(stream);
+            return Math.Max(0, reader.ReadToEnd().Split('\n').Count(l => l.Length > 0) - 1);
         }
         catch (IOException)
         {
@@ -89,6 +106,8 @@ public sealed class ServedBenchTests
         Assert.Equal(5, await run.WaitAsync(Limit));
         Assert.Equal("0", await bench.AskAsync("load", "INP?"));
         Assert.Contains("the supply (TCPIP::", run.Output, StringComparison.Ordinal);
+        Assert.Contains("did not confirm", run.Output, StringComparison.Ordinal);
+        Assert.DoesNotContain("[red", run.Output, StringComparison.Ordinal);
         Assert.DoesNotContain("the load (TCPIP::", run.Output, StringComparison.Ordinal);
     }
 
@@ -108,6 +127,68 @@ public sealed class ServedBenchTests
         Assert.Contains("Outputs confirmed off.", run.Output, StringComparison.Ordinal);
         var report = await File.ReadAllTextAsync(Path.Combine(files.Out, "report.html"), TestContext.Current.CancellationToken);
         Assert.Contains("Incomplete run (interrupted)", report, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task Interrupt_AfterOneSample_Ends130_WithOutputsOff_AndAReportOfWhatWasMeasuredMarkedIncomplete()
+    {
+        // A second of dwell per point: the interrupt lands long before the range has the three points a fit needs.
+        const string slow = """
+            sequence: Served-bench check — TW-18 60mA range, slow points
+            defaults: { dwell: 1 s, samples: 2, nplc: 1, read: [drop, reference] }
+            limits: { maxDrop: 1.5 V }
+            steps:
+              - sweep: { range: 60mA, currents: { linear: { from: 10 %, to: 100 %, points: 12 } } }
+            """;
+        await using var bench = await ServedBench.StartAsync(Tw18());
+        var files = await FilesAsync(bench, slow);
+        using var run = Run(bench, files);
+        var waited = Stopwatch.StartNew();
+        while (SamplesJournaled(files.Out) < 1)
+        {
+            Assert.True(waited.Elapsed < Limit, $"no sample journaled in time. Output:\n{run.Output}");
+            await Task.Delay(20, TestContext.Current.CancellationToken);
+        }
+
+        run.Signal("INT");
+        Assert.Equal(130, await run.WaitAsync(Limit));
+        Assert.Equal("0", await bench.AskAsync("supply", "OUTP?"));
+        Assert.Equal("0", await bench.AskAsync("load", "INP?"));
+        Assert.InRange(SamplesJournaled(files.Out), 1, 5);
+        var report = await File.ReadAllTextAsync(Path.Combine(files.Out, "report.html"), TestContext.Current.CancellationToken);
+        Assert.Contains("Incomplete run (interrupted)", report, StringComparison.Ordinal);
+        Assert.Contains("Analysis incomplete", report, StringComparison.Ordinal);
+        var result = Analysis.ResultJson.Read(Path.Combine(files.Out, "result.json"));
+        Assert.Equal("Interrupted", result.RunEnd);
+        Assert.Empty(result.Ranges);
+    }
+
+    [Fact]
+    public async Task ServingOnEveryInterface_WithAllowRemote_WarnsThatAnyoneCanDriveIt_AndPrintsUsableResourceStrings()
+    {
+        var simulated = Some.TempFile(Tw18());
+        using var serve = ToolProcess.Start("sim", "serve", simulated, "--host", "0.0.0.0", "--allow-remote", "--port", "0");
+        var waited = Stopwatch.StartNew();
+        while (!serve.Output.Contains("Ctrl-C", StringComparison.Ordinal))
+        {
+            Assert.True(waited.Elapsed < Limit, $"sim serve did not start in time. Output:\n{serve.Output}");
+            await Task.Delay(20, TestContext.Current.CancellationToken);
+        }
+
+        var output = serve.Output;
+        Assert.Contains("anyone who can reach these ports over the network can drive this simulated bench", output, StringComparison.Ordinal);
+        Assert.DoesNotContain("TCPIP::0.0.0.0::", output, StringComparison.Ordinal);
+        Assert.Contains("TCPIP::127.0.0.1::", output, StringComparison.Ordinal);
+        serve.Signal("INT");
+        await serve.WaitAsync(Limit);
+    }
+
+    [Fact]
+    public async Task ServingOnEveryInterface_WithoutAllowRemote_IsRefused()
+    {
+        using var serve = ToolProcess.Start("sim", "serve", Some.TempFile(Tw18()), "--host", "0.0.0.0", "--port", "0");
+        Assert.Equal(2, await serve.WaitAsync(Limit));
+        Assert.Contains("--allow-remote", serve.Output, StringComparison.Ordinal);
     }
 
     [Fact]
@@ -209,11 +290,18 @@ public sealed class ServedBenchTests
             Assert.Equal(130, await first.WaitAsync(Limit));
         }
 
+        // The bench stands idle for two seconds: the resumed journal must show them as a gap in its elapsed time.
+        await Task.Delay(TimeSpan.FromSeconds(2), TestContext.Current.CancellationToken);
         using var resumed = ToolProcess.Start("run", "--resume", files.Out);
         Assert.Equal(0, await resumed.WaitAsync(Limit));
         var events = Events(files.Out);
         Assert.Contains("\"event\":\"run-resume\"", events, StringComparison.Ordinal);
-        Assert.Contains("\"downtimeS\":", events, StringComparison.Ordinal);
+        var downtime = double.Parse(DowntimeField().Match(events).Groups[1].Value, CultureInfo.InvariantCulture);
+        Assert.InRange(downtime, 2, 60);
+        var elapsed = File.ReadLines(Path.Combine(files.Out, "journal.csv")).Skip(1)
+            .Select(l => double.Parse(l.Split(',')[10], CultureInfo.InvariantCulture)).ToList();
+        var largestGap = elapsed.Zip(elapsed.Skip(1), (a, b) => b - a).Max();
+        Assert.True(largestGap >= downtime, $"the journal's largest gap is {largestGap} s, the recorded downtime {downtime} s");
         Assert.Contains("\"id\":\"wire-mA\",\"text\":", events[events.IndexOf("run-resume", StringComparison.Ordinal)..], StringComparison.Ordinal);
         Assert.Contains("\"resumed\":true", events, StringComparison.Ordinal);
 
@@ -231,6 +319,9 @@ public sealed class ServedBenchTests
         using var run = Run(bench, files);
         Assert.Equal(0, await run.WaitAsync(Limit));
         Assert.Contains("\"event\":\"re-armed\"", Events(files.Out), StringComparison.Ordinal);
+
+        // --yes answered the confirmation before the outputs first turned on, and the journal says so.
+        Assert.Contains("\"id\":\"outputs-on\",\"answer\":\"done\",\"by\":\"--yes\"", Events(files.Out), StringComparison.Ordinal);
     }
 
     [Fact]
@@ -259,4 +350,7 @@ public sealed class ServedBenchTests
 
         return count;
     }
+
+    [GeneratedRegex(@"""downtimeS"":([0-9.eE+-]+)")]
+    private static partial Regex DowntimeField();
 }

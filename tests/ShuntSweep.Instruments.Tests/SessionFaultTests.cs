@@ -211,6 +211,24 @@ public sealed class SessionFaultTests
     }
 
     [Fact]
+    public async Task InstrumentThatHangs_IsReconnectedOnce_ThenTakenAsHung_WithoutUsingItsOtherRetries()
+    {
+        var fake = FakeInstrument.Supply();
+        var hung = false;
+        fake.Fault = _ => hung ? Reply.None : null;
+        await using var server = ScpiResponder.Start(fake);
+        await using var session = await DriverTests.OpenAsync(server, Fast(200));
+        var supply = new ScpiSupply(session, InstrumentProfile.Default, InstrumentResilience.Create(session.Resource, new ResilienceSettings(Retries: 3, RetryDelay: TimeSpan.FromMilliseconds(20)), TimeProvider.System));
+        await supply.ConfigureAsync(Voltage.FromVolts(5), Current.FromAmperes(1), Ct);
+
+        hung = true;
+        var ex = await Assert.ThrowsAsync<InstrumentUnresponsiveException>(() => supply.MeasureVoltageAsync(Ct));
+
+        Assert.Contains("taken as hung", ex.Message, StringComparison.Ordinal);
+        Assert.Equal(2, server.Connections); // the first, and one reconnect whose restore went unanswered; three retries would make four
+    }
+
+    [Fact]
     public async Task BreakerOpens_AfterRepeatedFailures_ButOutputOffStillGetsThrough()
     {
         var fake = FakeInstrument.Supply();

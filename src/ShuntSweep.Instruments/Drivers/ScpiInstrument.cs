@@ -229,7 +229,14 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
         var generation = Session.Generation;
         foreach (var (key, commands) in _configuration.ToList())
         {
-            await SendCheckedAsync(commands, $"restoring '{key}' after reconnecting", cancellationToken);
+            try
+            {
+                await SendCheckedAsync(commands, $"restoring '{key}' after reconnecting", cancellationToken);
+            }
+            catch (InstrumentTimeoutException ex)
+            {
+                throw new InstrumentUnresponsiveException(Resource, $"it did not answer after reconnecting either ({ex.Problem.TrimEnd('.')}); it is taken as hung and not tried again.", ex);
+            }
         }
 
         _generation = generation;

@@ -26,6 +26,11 @@ public sealed class InstrumentTimeoutException(string resource, string message, 
     public TimeSpan Timeout { get; } = timeout;
 }
 
+/// <summary>The instrument missed an answer and then did not answer when its configuration was re-sent after reconnecting: it is taken as hung and
+/// not tried again, so that the run's safe-off starts seconds sooner.</summary>
+public sealed class InstrumentUnresponsiveException(string resource, string message, Exception? inner = null)
+    : InstrumentException(resource, message, inner);
+
 /// <summary>The connection to the instrument was lost or could not be made.</summary>
 public sealed class InstrumentConnectionException(string resource, string message, Exception? inner = null)
     : InstrumentException(resource, message, inner);

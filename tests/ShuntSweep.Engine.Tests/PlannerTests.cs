@@ -64,11 +64,29 @@ public sealed class PlannerTests
     }
 
     [Fact]
-    public void Plan_EstimatesDuration_FromDwellAndIntegration()
+    public void Plan_EstimatesDuration_FromDwellTheMetersReadingTimesAndTheEndOfPointQueries()
     {
-        // 2 points × (100 ms dwell + 5 samples × 1 PLC at 50 Hz = 100 ms) = 400 ms.
+        // Default driver settings (50 Hz, 10 ms overhead per reading and per query), simulated in-process (settings take no bench time):
+        // per point 100 ms dwell + 5 readings × (1 PLC = 20 ms + 10 ms) + supply voltage, load status and load voltage (3 × 10 ms) = 280 ms.
         var plan = Plan("  - sweep: { range: 60mA, currents: [1 mA, 2 mA], dwell: 100 ms, samples: 5, nplc: 1 }\n");
-        Assert.Equal(TimeSpan.FromMilliseconds(400), plan.EstimatedDuration);
+        Assert.Equal(TimeSpan.FromMilliseconds(560), plan.EstimatedDuration);
+        Assert.Equal(0, plan.Estimate.AdaptivePoints);
+    }
+
+    [Fact]
+    public void Plan_CountsAnAdaptivePointsLearnedWait_AndElseItsFewestReadings_WithWhatMaxWaitCouldAdd()
+    {
+        const string steps = "  - sweep: { range: 60mA, currents: [1 mA, 2 mA], dwell: 100 ms, samples: 5, nplc: 1, settle: { agree: 4, within: 0.001 %, maxWait: 30 s } }\n";
+        var unknown = Plan(steps);
+        var first = unknown.Steps.OfType<MeasureStep>().First();
+        var learned = Planner.Plan(SequenceReader.Parse($"sequence: t\nsteps:\n{steps}", "t.yaml"), Some.Bench(), new Dictionary<int, TimeSpan> { [first.Index] = TimeSpan.FromSeconds(12) });
+
+        // The fewest readings the rule decides on, each a drop reading of 30 ms.
+        var least = TimeSpan.FromMilliseconds(30) * Running.SettlingDetector.MinimumReadings(4);
+        Assert.Equal((2, 0), (unknown.Estimate.AdaptivePoints, unknown.Estimate.LearnedPoints));
+        Assert.Equal(2 * (TimeSpan.FromSeconds(30) - least), unknown.Estimate.LongestExtra);
+        Assert.Equal((2, 1), (learned.Estimate.AdaptivePoints, learned.Estimate.LearnedPoints));
+        Assert.Equal(TimeSpan.FromSeconds(12) - least, learned.EstimatedDuration - unknown.EstimatedDuration);
     }
 
     [Fact]

@@ -1,7 +1,10 @@
 using System.CommandLine;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
+using ShuntSweep.Core.Records;
 using ShuntSweep.Core.Timing;
+using ShuntSweep.Engine.Journal;
 using ShuntSweep.Engine.Planning;
 using ShuntSweep.Engine.Sequences;
 using ShuntSweep.Simulation;
@@ -16,10 +19,12 @@ internal static class PlanCommand
     {
         var sequenceArg = new Argument<string>("sequence") { Description = "The sequence file to plan." };
         var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the sequence's bench: key, else {BenchHost.DefaultBench})." };
-        var command = new Command("plan", "Expand a sequence into steps, check it against the UUT and the bench, estimate its duration.") { sequenceArg, benchOpt };
+        var timingOpt = TimingFromOption();
+        var command = new Command("plan", "Expand a sequence into steps, check it against the UUT and the bench, estimate its duration.") { sequenceArg, benchOpt, timingOpt };
         command.SetAction((parse, _) => Terminal.GuardAsync(async () =>
         {
             var sequence = SequenceReader.Load(BenchHost.Bundled(parse.GetValue(sequenceArg)!, "sequence file"));
+            var learned = LearnedSettling(parse.GetValue(timingOpt), sequence);
             var bench = BenchReader.Load(BenchHost.Locate(parse.GetValue(benchOpt) ?? sequence.Bench));
             if (bench.Instruments.Values.Any(i => i.Resource.StartsWith("SIM::", StringComparison.OrdinalIgnoreCase)))
             {
@@ -27,14 +32,41 @@ internal static class PlanCommand
                 await using var simulated = SimulatedBench.Create(bench, new VirtualBenchClock(new VirtualTimeProvider()), seed: 1);
             }
 
-            var plan = Planner.Plan(sequence, bench);
-            return Show(sequence, bench, plan, brief: false) ? ExitCodes.Success : ExitCodes.UnsafePlan;
+            var plan = Planner.Plan(sequence, bench, learned?.Waits);
+            return Show(sequence, bench, plan, brief: false, learned?.Directory) ? ExitCodes.Success : ExitCodes.UnsafePlan;
         }));
         return command;
     }
 
-    /// <summary>Prints the plan (per range, or only its totals when <paramref name="brief"/>) and any violation; returns whether it may run.</summary>
-    public static bool Show(Sequence sequence, BenchDescription bench, RunPlan plan, bool brief)
+    /// <summary>The <c>--timing-from DIR</c> option of plan and run: the settling waits of an earlier run of the sequence.</summary>
+    public static Option<string?> TimingFromOption() =>
+        new("--timing-from") { Description = "Count on the settling waits of an earlier run of this sequence (its run directory) in the estimate; without it each adaptive point counts its fewest readings." };
+
+    /// <summary>The settling waits of the earlier run in <paramref name="directory"/>, refused when that run was of another sequence; null without a directory.</summary>
+    public static (string Directory, IReadOnlyDictionary<int, TimeSpan> Waits)? LearnedSettling(string? directory, Sequence sequence)
+    {
+        if (directory is null)
+        {
+            return null;
+        }
+
+        if (!File.Exists(Path.Combine(directory, RunJournal.EventsFile)) || !File.Exists(Path.Combine(directory, RunManifest.FileName)))
+        {
+            throw new DirectoryNotFoundException($"--timing-from {directory}: not a run directory (it has no {RunJournal.EventsFile} and {RunManifest.FileName}).");
+        }
+
+        var manifest = RunManifest.Read(directory);
+        if (manifest.SequenceSha256 != RunManifest.HashFile(sequence.File))
+        {
+            throw new InvalidDataException($"--timing-from {directory}: that run was of another sequence ({manifest.SequenceFile}, SHA-256 {manifest.SequenceSha256[..12]}…), so its settling waits say nothing of this one.");
+        }
+
+        return (directory, EventLog.SettlingWaits(directory));
+    }
+
+    /// <summary>Prints the plan (per range, or only its totals when <paramref name="brief"/>), its estimate (with the settling waits learned from the
+    /// run in <paramref name="learnedFrom"/> where given) and any violation; returns whether it may run.</summary>
+    public static bool Show(Sequence sequence, BenchDescription bench, RunPlan plan, bool brief, string? learnedFrom = null)
     {
         AnsiConsole.MarkupLineInterpolated($"[bold]{sequence.Title}[/] on {bench.Name} — UUT {bench.Uut.Manufacturer} {bench.Uut.Model} s/n {bench.Uut.Serial}");
         if (!brief)
@@ -60,7 +92,19 @@ internal static class PlanCommand
             }
         }
 
-        AnsiConsole.MarkupLineInterpolated($"{plan.Steps.Count} steps, {plan.SampleCount} samples, estimated {plan.EstimatedDuration.TotalSeconds:0.#} s on the bench.");
+        AnsiConsole.MarkupLineInterpolated($"{plan.Steps.Count} steps, {plan.SampleCount} samples, about {QuantityFormatter.Format(plan.EstimatedDuration.TotalSeconds, SiUnit.Second, 3)} on the bench (the instruments' reading and command times from the bench file).");
+        var estimate = plan.Estimate;
+        if (estimate.AdaptivePoints > 0)
+        {
+            if (estimate.LearnedPoints == estimate.AdaptivePoints)
+            {
+                AnsiConsole.MarkupLineInterpolated($"  Settling: the waits of its {estimate.AdaptivePoints} adaptive points as the earlier run in {learnedFrom} took them.");
+            }
+            else
+            {
+                AnsiConsole.MarkupLineInterpolated($"  Settling: {estimate.AdaptivePoints - estimate.LearnedPoints} of its {estimate.AdaptivePoints} adaptive points counted at their fewest readings; up to {QuantityFormatter.Format(estimate.LongestExtra.TotalSeconds, SiUnit.Second, 3)} more if each waits its maxWait. Give --timing-from with an earlier run of this sequence to count on its waits.");
+            }
+        }
         if (plan.IsSafe)
         {
             ShowProtection(sequence, bench, plan);

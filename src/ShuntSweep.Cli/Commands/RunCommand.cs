@@ -38,19 +38,20 @@ internal static class RunCommand
         {
             Description = "Date the report, summary and JUnit file by the run's own start and leave folders out of them, so that the same run diffs clean in CI.",
         };
+        var timingOpt = PlanCommand.TimingFromOption();
         var context = new RecordOptions();
         var command = new Command("run", "Run a sequence on a bench, journal every sample, then fit and report.")
         {
-            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt, yesOpt, noArchiveOpt, jsonOpt, junitOpt, reproducibleOpt,
+            sequenceArg, benchOpt, outOpt, seedOpt, answersOpt, resumeOpt, archiveOpt, yesOpt, noArchiveOpt, jsonOpt, junitOpt, reproducibleOpt, timingOpt,
         };
         context.AddTo(command);
         command.SetAction((parse, ct) => Terminal.GuardAsync(() => ExecuteAsync(
-            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt), parse.GetValue(yesOpt),
+            parse.GetValue(sequenceArg), parse.GetValue(benchOpt), parse.GetValue(outOpt), parse.GetValue(seedOpt), parse.GetValue(answersOpt), parse.GetValue(resumeOpt), parse.GetValue(archiveOpt), parse.GetValue(yesOpt), parse.GetValue(timingOpt),
             new RunOutputOptions(parse.GetValue(noArchiveOpt), parse.GetValue(jsonOpt), parse.GetValue(junitOpt), parse.GetValue(reproducibleOpt), context.Read(parse)), ct)));
         return command;
     }
 
-    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, CancellationToken ct)
+    private static async Task<int> ExecuteAsync(string? sequencePath, string? benchPath, string? outDir, int seed, string? answers, string? resume, string? archive, bool yes, string? timingFrom, RunOutputOptions outputs, CancellationToken ct)
     {
         if (outputs.Json == "-")
         {
@@ -87,11 +88,11 @@ internal static class RunCommand
                 Terminal.Note("note", $"process {stale} had ended without releasing {outDir}; its lock was taken over.");
             }
 
-            return await PrepareAsync(sequencePath, benchPath, outDir, seed, answers, resume, archive, yes, outputs, ct);
+            return await PrepareAsync(sequencePath, benchPath, outDir, seed, answers, resume, archive, yes, timingFrom, outputs, ct);
         }
     }
 
-    private static async Task<int> PrepareAsync(string? sequencePath, string? benchPath, string outDir, int seed, string? answers, string? resume, string? archive, bool yes, RunOutputOptions outputs, CancellationToken ct)
+    private static async Task<int> PrepareAsync(string? sequencePath, string? benchPath, string outDir, int seed, string? answers, string? resume, string? archive, bool yes, string? timingFrom, RunOutputOptions outputs, CancellationToken ct)
     {
         RunManifest? previous = null;
         if (resume is not null)
@@ -132,8 +133,9 @@ internal static class RunCommand
         var bench = BenchReader.Load(benchFile);
         // Every instrument's profile must have what its role needs before anything is shown, asked or switched.
         ShuntSweep.Instruments.BenchConnector.Validate(bench);
-        var plan = Planner.Plan(sequence, bench);
-        if (!PlanCommand.Show(sequence, bench, plan, brief: true))
+        var learned = PlanCommand.LearnedSettling(timingFrom, sequence);
+        var plan = Planner.Plan(sequence, bench, learned?.Waits);
+        if (!PlanCommand.Show(sequence, bench, plan, brief: true, learned?.Directory))
         {
             return ExitCodes.UnsafePlan;
         }
@@ -189,13 +191,6 @@ internal static class RunCommand
         await using var instruments = await BenchHost.ConnectAsync(bench, clock, seed, traffic, ct);
         // The connector asked every instrument for its identity (*IDN?) when it connected.
         var identities = instruments.Instruments.ToDictionary(i => BenchReader.KeyOf(i.Role), i => i.Identity.ToString());
-        var onThisBench = Planner.Estimate(plan.Steps, settings => new[]
-            {
-                instruments.DropMeter.MeasurementTime,
-                settings.Read.HasFlag(Readings.Uut) && instruments.UutMeter is { } u ? u.MeasurementTime : TimeSpan.Zero,
-                settings.Read.HasFlag(Readings.Reference) && instruments.Reference is { } r ? r.MeasurementTime : TimeSpan.Zero,
-            }.Max());
-        AnsiConsole.MarkupLineInterpolated($"With these instruments' measurement times: about {onThisBench.TotalSeconds:0.#} s on the bench.");
 
         if (previous is null)
         {

@@ -160,6 +160,16 @@ public static class EventLog
                 .ToHashSet()
             : new HashSet<int>();
 
+    /// <summary>How long each adaptive point of the run in <paramref name="directory"/> waited for its drop to settle, by step index
+    /// (<c>settled</c> and <c>not-settled</c> events), so that a plan of the same sequence can count on the same waits.</summary>
+    public static IReadOnlyDictionary<int, TimeSpan> SettlingWaits(string directory) =>
+        Read(Path.Combine(directory, RunJournal.EventsFile))
+            .Where(e => e.GetProperty("event").GetString() is "settled" or "not-settled"
+                && e.TryGetProperty("step", out var s) && s.ValueKind == JsonValueKind.Number
+                && e.TryGetProperty("waitedS", out var w) && w.ValueKind == JsonValueKind.Number)
+            .GroupBy(e => e.GetProperty("step").GetInt32())
+            .ToDictionary(g => g.Key, g => TimeSpan.FromSeconds(g.Last().GetProperty("waitedS").GetDouble()));
+
     /// <summary>The events of a log, leaving out a last line torn by an interrupted write.</summary>
     public static IEnumerable<JsonElement> Read(string path)
     {

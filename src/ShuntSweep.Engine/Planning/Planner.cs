@@ -4,17 +4,16 @@ using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Uut;
 using ShuntSweep.Engine.Running;
 using ShuntSweep.Engine.Sequences;
+using ShuntSweep.Instruments;
 
 namespace ShuntSweep.Engine.Planning;
 
 /// <summary>Expands a sequence on a bench into concrete steps and checks every one against the UUT, its fuses and the bench's limits before any output is touched.</summary>
 public static class Planner
 {
-    /// <summary>The power-line frequency assumed for integration-time estimates.</summary>
-    public const double LineFrequencyHz = 50;
-
-    /// <summary>Expands and checks <paramref name="sequence"/> on <paramref name="bench"/>.</summary>
-    public static RunPlan Plan(Sequence sequence, BenchDescription bench)
+    /// <summary>Expands and checks <paramref name="sequence"/> on <paramref name="bench"/>; its estimate takes the settling waits
+    /// <paramref name="learnedSettling"/> from an earlier run of the same sequence (by step index) where given.</summary>
+    public static RunPlan Plan(Sequence sequence, BenchDescription bench, IReadOnlyDictionary<int, TimeSpan>? learnedSettling = null)
     {
         ArgumentNullException.ThrowIfNull(sequence);
         ArgumentNullException.ThrowIfNull(bench);
@@ -98,7 +97,7 @@ public static class Planner
             }
         }
 
-        var plan = new RunPlan(steps, Estimate(steps), violations);
+        var plan = new RunPlan(steps, Estimate(steps, BenchTiming.Of(bench), !bench.IsSimulated, learnedSettling), violations);
         var points = steps.Count(s => s is CurrentStep);
         if (points > PlanLimits.MaxPoints)
         {
@@ -223,32 +222,89 @@ public static class Planner
         }
     }
 
-    /// <summary>The expected duration of <paramref name="steps"/> when one sample takes <paramref name="sampleTime"/> (by default the integration time at the step's NPLC).</summary>
-    /// <remarks>Once the bench is connected, the instruments' own measurement times (a handheld UUT may read only three times a second) give a better estimate.
-    /// An adaptive point counts the fewest readings its settling rule can decide on; a thermal drift makes it wait longer.</remarks>
-    public static TimeSpan Estimate(IReadOnlyList<PlanStep> steps, Func<PointSettings, TimeSpan>? sampleTime = null)
+    /// <summary>The expected duration of <paramref name="steps"/> on a bench of <paramref name="timing"/>: each reading takes as long as the slowest
+    /// meter read, each command its instrument's processing time, and each adaptive point the wait <paramref name="learned"/> from an earlier
+    /// run (by step index) or else the fewest drop readings its settling rule can decide on.</summary>
+    /// <param name="steps">The plan's steps.</param>
+    /// <param name="timing">The bench's instrument timing.</param>
+    /// <param name="concurrentQueries">True when the end-of-point queries of supply and load overlap (a bench of independent instruments).</param>
+    /// <param name="learned">Settling waits of an earlier run of the same sequence, by step index.</param>
+    public static RunEstimate Estimate(IReadOnlyList<PlanStep> steps, BenchTiming timing, bool concurrentQueries, IReadOnlyDictionary<int, TimeSpan>? learned = null)
     {
         ArgumentNullException.ThrowIfNull(steps);
-        sampleTime ??= IntegrationTime;
+        ArgumentNullException.ThrowIfNull(timing);
         var total = TimeSpan.Zero;
+        var extra = TimeSpan.Zero;
+        var adaptive = 0;
+        var fromHistory = 0;
+
+        // Regulation status, supply voltage and load voltage after every point: in turn, or the supply's alongside the load's two.
+        var loadQueries = 2 * timing.LoadQuery;
+        var endOfPoint = concurrentQueries ? Max(timing.SupplyQuery, loadQueries) : timing.SupplyQuery + loadQueries;
+        string? range = null;
         foreach (var step in steps)
         {
-            total += step switch
+            if (step is CurrentStep c && c.Range != range)
             {
-                MeasureStep m => m.Settings.Settling.Dwell + (sampleTime(m.Settings) * (m.Settings.Samples + (m.Settings.Settling.IsAdaptive ? SettlingDetector.MinimumReadings(m.Settings.Settling.AgreeCount) : 0))),
-                HoldStep h => h.Duration + h.Settings.Settling.Dwell,
-                RampStep r => r.Duration,
-                _ => TimeSpan.Zero,
-            };
+                range = c.Range;
+                total += timing.RangeEntry;
+            }
+
+            switch (step)
+            {
+                case PromptStep { OutputsOff: true }:
+                    total += timing.Rewiring;
+                    break;
+                case MeasureStep m:
+                    var settling = m.Settings.Settling;
+                    total += timing.LoadSetpoint + settling.Dwell + (Reading(timing, m.Settings) * m.Settings.Samples) + endOfPoint;
+                    if (settling.IsAdaptive)
+                    {
+                        adaptive++;
+                        if (learned is not null && learned.TryGetValue(m.Index, out var wait))
+                        {
+                            fromHistory++;
+                            total += wait;
+                        }
+                        else
+                        {
+                            var least = timing.Drop(m.Settings.Nplc) * SettlingDetector.MinimumReadings(settling.AgreeCount);
+                            total += least;
+                            extra += Max(TimeSpan.Zero, settling.MaxWait - least);
+                        }
+                    }
+
+                    break;
+                case HoldStep h:
+                    // Samples are taken on the hold's own clock; one that takes longer than the interval delays the next.
+                    var each = Max(h.Interval, Reading(timing, h.Settings));
+                    total += timing.LoadSetpoint + h.Settings.Settling.Dwell + (each * RunPlan.HoldSamples(h)) + endOfPoint;
+                    break;
+                case RampStep r:
+                    total += r.Duration + (timing.LoadSetpoint * r.Steps);
+                    break;
+            }
         }
 
-        return total;
+        return new RunEstimate(total, adaptive, fromHistory, extra);
     }
 
-    /// <summary>The integration time of one sample at the settings' NPLC.</summary>
-    public static TimeSpan IntegrationTime(PointSettings settings)
+    /// <summary>One reading of a point: the slowest of the meters it reads.</summary>
+    private static TimeSpan Reading(BenchTiming timing, PointSettings settings)
     {
-        ArgumentNullException.ThrowIfNull(settings);
-        return TimeSpan.FromSeconds(settings.Nplc / LineFrequencyHz);
+        var reading = timing.Drop(settings.Nplc);
+        if (settings.Read.HasFlag(Readings.Uut) && timing.Uut is { } uut)
+        {
+            reading = Max(reading, uut);
+        }
+
+        if (settings.Read.HasFlag(Readings.Reference) && timing.Reference(settings.Nplc) is { } reference)
+        {
+            reading = Max(reading, reference);
+        }
+
+        return reading;
     }
+
+    private static TimeSpan Max(TimeSpan a, TimeSpan b) => a > b ? a : b;
 }

@@ -39,12 +39,23 @@ public sealed record PromptStep(int Index, int Line, string Id, string Text, boo
 /// <param name="Message">What is wrong, in the operator's words.</param>
 public sealed record PlanViolation(int Step, int Line, string Message);
 
+/// <summary>How long a plan is expected to take on its bench, and how much of that rests on the settling waits.</summary>
+/// <param name="Total">The expected duration: the instruments' reading and command times, dwells, holds and ramps, and the settling waits
+/// (those learned from an earlier run, else the fewest readings the settling rule can decide on).</param>
+/// <param name="AdaptivePoints">Points that wait for the drop to settle.</param>
+/// <param name="LearnedPoints">Of those, the points whose wait was taken from an earlier run of the sequence.</param>
+/// <param name="LongestExtra">How much longer the run would take at most if every adaptive point not learned waited its maxWait.</param>
+public sealed record RunEstimate(TimeSpan Total, int AdaptivePoints, int LearnedPoints, TimeSpan LongestExtra);
+
 /// <summary>The expanded, checked plan of a run.</summary>
 /// <param name="Steps">The steps in order.</param>
-/// <param name="EstimatedDuration">The expected duration on the bench (settling, integration and holds).</param>
+/// <param name="Estimate">The expected duration on the bench, from the bench file's instrument timing.</param>
 /// <param name="Violations">Everything that makes the plan unsafe; a plan with any is refused.</param>
-public sealed record RunPlan(IReadOnlyList<PlanStep> Steps, TimeSpan EstimatedDuration, IReadOnlyList<PlanViolation> Violations)
+public sealed record RunPlan(IReadOnlyList<PlanStep> Steps, RunEstimate Estimate, IReadOnlyList<PlanViolation> Violations)
 {
+    /// <summary>The expected duration on the bench.</summary>
+    public TimeSpan EstimatedDuration => Estimate.Total;
+
     /// <summary>True when the plan may run.</summary>
     public bool IsSafe => Violations.Count == 0;
 

@@ -83,7 +83,7 @@ public sealed record DriverSettings(
             }
 
             var overload = map.Optional("overload") is { } o ? Pattern(o) : null;
-            var interval = map.QuantityOr("readingInterval", SiUnit.Second, 0.5);
+            var interval = map.QuantityOr("readingInterval", SiUnit.Second, 0.5, Allowed.UpTo(3600, SiUnit.Second));
             streamed = new StreamedReadingSettings(regex, overload, TimeSpan.FromSeconds(interval));
         }
 
@@ -117,7 +117,7 @@ public sealed record DriverSettings(
             throw map.Required("lineFrequency").Error($"{map.What}.lineFrequency: {lineFrequency} Hz is not a mains frequency (expected 50 Hz or 60 Hz).");
         }
 
-        var overhead = map.QuantityOr("overhead", SiUnit.Second, 0.010);
+        var overhead = map.QuantityOr("overhead", SiUnit.Second, 0.010, Allowed.Between(0, 60, SiUnit.Second));
         var margin = map.Optional("timeoutMargin")?.AsQuantity(SiUnit.None) ?? 2;
         if (overhead < 0 || margin < 1)
         {

@@ -44,13 +44,13 @@ public sealed record ResilienceSettings(
         }
 
         var retries = map.IntOr("retries", 2, 0, 10);
-        var delay = map.QuantityOr("retryDelay", SiUnit.Second, 0.2);
-        var timeout = map.QuantityOr("operationTimeout", SiUnit.Second, 60);
+        var delay = map.QuantityOr("retryDelay", SiUnit.Second, 0.2, Allowed.Between(0, 3600, SiUnit.Second));
+        var timeout = map.QuantityOr("operationTimeout", SiUnit.Second, 60, Allowed.UpTo(86400, SiUnit.Second));
         var breaker = map.Mapping("breaker");
         var ratio = breaker?.Optional("failureRatio")?.AsQuantity(SiUnit.None) ?? 0.5;
         var minimum = breaker?.IntOr("minimumThroughput", 4, 2, 1000) ?? 4;
-        var window = breaker?.QuantityOr("window", SiUnit.Second, 30) ?? 30;
-        var pause = breaker?.QuantityOr("pause", SiUnit.Second, 30) ?? 30;
+        var window = breaker?.QuantityOr("window", SiUnit.Second, 30, Allowed.Between(0.5, 86400, SiUnit.Second)) ?? 30;
+        var pause = breaker?.QuantityOr("pause", SiUnit.Second, 30, Allowed.Between(0.5, 86400, SiUnit.Second)) ?? 30;
         breaker?.Finish();
         map.Finish();
         if (delay < 0 || timeout <= 0 || ratio is <= 0 or > 1 || window < 0.5 || pause < 0.5)

@@ -10,7 +10,7 @@ using Xunit;
 namespace ShuntSweep.Cli.Tests;
 
 /// <summary>The duration <c>plan</c> predicts is the bench time a run then takes: within ±15 % for every shipped sequence on the simulated
-/// bench, and on the simulated bench served over TCP in real time, with the settling waits learned from an earlier run of the sequence.</summary>
+/// bench, with the settling waits learned from an earlier run of the sequence.</summary>
 public sealed partial class PlanEstimateTests
 {
     private const double Within = 0.15;
@@ -18,10 +18,6 @@ public sealed partial class PlanEstimateTests
     /// <summary>Every shipped sequence that runs to its end (a fault demo stops early, so its bench time is not the plan's).</summary>
     public static TheoryData<string> Sequences() =>
         new(SampleFileTests.Sequences().Select(row => row.Data).Where(f => !File.ReadAllText(Repo.File(f)).Contains("# expect-exit:", StringComparison.Ordinal)));
-
-    /// <summary>Sequences short enough to run in real time on the served bench (a few seconds each).</summary>
-    public static TheoryData<string> ShortSequences() =>
-        ["sequences/ci-smoke.yaml", "sequences/dialect-dmm-quillon.yaml", "sequences/dialect-load-hollin.yaml", "sequences/dialect-mixed-bm5.yaml", "sequences/dialect-supply-corvane.yaml"];
 
     [Theory]
     [MemberData(nameof(Sequences))]
@@ -37,6 +33,46 @@ public sealed partial class PlanEstimateTests
         await Cli.RunAsync("run", sequence, "--out", next, "--no-archive", "--seed", "2");
         AssertWithin(estimate, BenchTime(next), file);
     }
+
+    internal static async Task<double> EstimateAsync(string sequence, params string[] more)
+    {
+        var (exit, output, error) = await Cli.RunProcessAsync(new Dictionary<string, string?>(), ["plan", sequence, .. more]);
+        Assert.True(exit == 0, error);
+        var said = Estimate().Match(output);
+        Assert.True(said.Success, output);
+        return QuantityParser.Parse(said.Groups[1].Value, SiUnit.Second);
+    }
+
+    /// <summary>The run's bench time from its first step to its end (connecting to the instruments is not part of the plan).</summary>
+    internal static double BenchTime(string runDirectory)
+    {
+        var events = File.ReadLines(Path.Combine(runDirectory, "events.jsonl")).Select(l => JsonDocument.Parse(l).RootElement).ToList();
+        double At(string name) => events.Last(e => e.GetProperty("event").GetString() == name).GetProperty("elapsedS").GetDouble();
+        return At("run-end") - At("run-start");
+    }
+
+    internal static void AssertWithin(double estimate, double measured, string file)
+    {
+        TestContext.Current.TestOutputHelper?.WriteLine(string.Create(CultureInfo.InvariantCulture, $"{file}: estimated {estimate:0.###} s, measured {measured:0.###} s ({(estimate / measured) - 1:+0.0%;-0.0%})"));
+        Assert.True(Math.Abs(estimate - measured) <= Within * measured, string.Create(CultureInfo.InvariantCulture, $"{file}: estimated {estimate} s, the run took {measured} s"));
+    }
+
+    [GeneratedRegex(@"about (\S+ s) on the bench")]
+    private static partial Regex Estimate();
+
+}
+
+/// <summary>Runs alone: a real-time run's bench time is what the machine gives it, and other tests running beside it would lengthen it.</summary>
+[CollectionDefinition(nameof(RunsAlone), DisableParallelization = true)]
+public sealed class RunsAlone;
+
+/// <summary>The duration <c>plan</c> predicts on the simulated bench served over TCP is, within ±15 %, the bench time of a real-time run there.</summary>
+[Collection(nameof(RunsAlone))]
+public sealed partial class ServedPlanEstimateTests
+{
+    /// <summary>Sequences short enough to run in real time on the served bench (a few seconds each).</summary>
+    public static TheoryData<string> ShortSequences() =>
+        ["sequences/ci-smoke.yaml", "sequences/dialect-dmm-quillon.yaml", "sequences/dialect-load-hollin.yaml", "sequences/dialect-mixed-bm5.yaml", "sequences/dialect-supply-corvane.yaml"];
 
     [Theory]
     [MemberData(nameof(ShortSequences))]
@@ -54,7 +90,7 @@ public sealed partial class PlanEstimateTests
             await Task.Delay(20, TestContext.Current.CancellationToken);
         }
 
-        var estimate = await EstimateAsync(sequence, "--bench", benchFile);
+        var estimate = await PlanEstimateTests.EstimateAsync(sequence, "--bench", benchFile);
         var answers = Some.TempFile("otherwise: done\n");
         var run = Path.Combine(dir, "run");
         using (var tool = ToolProcess.Start("run", sequence, "--bench", benchFile, "--out", run, "--answers", answers, "--yes", "--no-archive"))
@@ -62,36 +98,10 @@ public sealed partial class PlanEstimateTests
             Assert.Equal(0, await tool.WaitAsync(TimeSpan.FromSeconds(120)));
         }
 
-        AssertWithin(estimate, BenchTime(run), file);
+        PlanEstimateTests.AssertWithin(estimate, PlanEstimateTests.BenchTime(run), file);
         serve.Signal("INT");
         await serve.WaitAsync(TimeSpan.FromSeconds(30));
     }
-
-    private static async Task<double> EstimateAsync(string sequence, params string[] more)
-    {
-        var (exit, output, error) = await Cli.RunProcessAsync(new Dictionary<string, string?>(), ["plan", sequence, .. more]);
-        Assert.True(exit == 0, error);
-        var said = Estimate().Match(output);
-        Assert.True(said.Success, output);
-        return QuantityParser.Parse(said.Groups[1].Value, SiUnit.Second);
-    }
-
-    /// <summary>The run's bench time from its first step to its end (connecting to the instruments is not part of the plan).</summary>
-    private static double BenchTime(string runDirectory)
-    {
-        var events = File.ReadLines(Path.Combine(runDirectory, "events.jsonl")).Select(l => JsonDocument.Parse(l).RootElement).ToList();
-        double At(string name) => events.Last(e => e.GetProperty("event").GetString() == name).GetProperty("elapsedS").GetDouble();
-        return At("run-end") - At("run-start");
-    }
-
-    private static void AssertWithin(double estimate, double measured, string file)
-    {
-        TestContext.Current.TestOutputHelper?.WriteLine(string.Create(CultureInfo.InvariantCulture, $"{file}: estimated {estimate:0.###} s, measured {measured:0.###} s ({(estimate / measured) - 1:+0.0%;-0.0%})"));
-        Assert.True(Math.Abs(estimate - measured) <= Within * measured, string.Create(CultureInfo.InvariantCulture, $"{file}: estimated {estimate} s, the run took {measured} s"));
-    }
-
-    [GeneratedRegex(@"about (\S+ s) on the bench")]
-    private static partial Regex Estimate();
 
     [GeneratedRegex(@"(?m)^bench: (\S+)")]
     private static partial Regex BenchKey();

@@ -2,6 +2,7 @@ using MathNet.Numerics.Distributions;
 using ShuntSweep.Analysis.Fitting;
 using ShuntSweep.Analysis.Models;
 using ShuntSweep.Analysis.Results;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Uut;
 
 namespace ShuntSweep.Analysis;
@@ -355,7 +356,7 @@ internal static class JackDecomposer
         var rth = betaF / (options.FuseTemperatureCoefficient * fuse);
         return Make(
             "thermal-step",
-            $"the thermal hold at {hold.CurrentA:G4} A shows the fuse as its fast term and the shunt as its slow term; the sweep's heating is split between them in the ratio of the hold's amplitudes",
+            $"the thermal hold at {QuantityFormatter.Format(hold.CurrentA, SiUnit.Ampere)} shows the fuse as its fast term and the shunt as its slow term; the sweep's heating is split between them in the ratio of the hold's amplitudes",
             fuseEstimate,
             new Dictionary<string, Estimate> { [range.Result.Name] = new Estimate(Shunt(at), Math.Sqrt(Propagation.Variance(Shunt, at, cov))) },
             chi2,

@@ -1,6 +1,7 @@
 using System.Net.Sockets;
 using ShuntSweep.Core.Bench;
 using ShuntSweep.Core.Documents;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Timing;
 using ShuntSweep.Instruments.Drivers;
 using ShuntSweep.Instruments.Messaging;
@@ -123,7 +124,7 @@ public static class BenchConnector
             }
             catch (OperationCanceledException) when (timeout.IsCancellationRequested && !cancellationToken.IsCancellationRequested)
             {
-                throw new InstrumentConnectionException(address.Text, $"no connection within {timeoutLimit.TotalSeconds:0.###} s.");
+                throw new InstrumentConnectionException(address.Text, $"no connection within {QuantityFormatter.Format(timeoutLimit.TotalSeconds, SiUnit.Second)}.");
             }
         }
         catch (Exception ex) when (ex is SocketException or IOException or UnauthorizedAccessException or ArgumentException)

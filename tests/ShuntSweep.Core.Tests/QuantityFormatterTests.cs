@@ -88,6 +88,16 @@ public sealed partial class QuantityFormatterTests
         Assert.Equal("1 fV", QuantityFormatter.FormatAtResolution(1e-15, 1e-320, SiUnit.Volt));
     }
 
+    [Theory]
+    [InlineData(0.8, false, "80 %")]
+    [InlineData(0.1, false, "10 %")]
+    [InlineData(0.00026, true, "+0.026 %")]
+    [InlineData(-0.009068, true, "-0.907 %")]
+    [InlineData(0.0, true, "0 %")]
+    [InlineData(0.000001, false, "0.0001 %")]
+    public void FormatPercent_HasThreeSignificantDigits_AndASignWhenAsked(double fraction, bool showSign, string expected) =>
+        Assert.Equal(expected, QuantityFormatter.FormatPercent(fraction, showSign: showSign));
+
     [Fact]
     public void Format_NotANumber_IsADashNotNaN() =>
         Assert.Equal("—", QuantityFormatter.Format(double.NaN, SiUnit.Ampere));

@@ -129,7 +129,7 @@ internal static class PlanCommand
         foreach (var p in SupplyProtection.ForJacks(plan, sequence, bench))
         {
             AnsiConsole.MarkupLineInterpolated(
-                $"  {p.Jack} jack: current limit {p.CurrentLimit} (largest planned {p.LargestPlanned} + {SupplyProtection.Margin:P0}, at most {p.Derating:P0} of its {p.FuseRating} fuse and the bench's {bench.Supply.CurrentLimit}).");
+                $"  {p.Jack} jack: current limit {p.CurrentLimit} (largest planned {p.LargestPlanned} + {QuantityFormatter.FormatPercent(SupplyProtection.Margin)}, at most {QuantityFormatter.FormatPercent(p.Derating)} of its {p.FuseRating} fuse and the bench's {bench.Supply.CurrentLimit}).");
         }
     }
 }

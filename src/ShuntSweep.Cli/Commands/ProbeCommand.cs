@@ -2,6 +2,7 @@ using System.CommandLine;
 using System.Globalization;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Timing;
 using ShuntSweep.Instruments;
 using ShuntSweep.Instruments.Messaging;
@@ -152,8 +153,8 @@ internal static class ProbeCommand
             var trip = trips.Length == 0
                 ? "-"
                 : count > 1
-                    ? $"{Median(trips):0.000} ms / {Percentile95(trips):0.000} ms"
-                    : $"{trips[0]:0.000} ms";
+                    ? $"{QuantityFormatter.Format(Median(trips) / 1000, SiUnit.Second)} / {QuantityFormatter.Format(Percentile95(trips) / 1000, SiUnit.Second)}"
+                    : $"{QuantityFormatter.Format(trips[0] / 1000, SiUnit.Second)}";
             var identity = report is null
                 ? $"[red]{Markup.Escape(r.Failure ?? "no answer")}[/]"
                 : report.IdentityProblem is { } problem ? $"[red]{Markup.Escape(problem)}[/]" : Markup.Escape(report.Identity!.ToString());

@@ -4,6 +4,7 @@ using ShuntSweep.Analysis;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Cli.Composition;
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Records;
 using ShuntSweep.Core.Timing;
 using ShuntSweep.Engine.Journal;
@@ -226,7 +227,7 @@ internal static class RunCommand
         {
             resumeAt = lastDone.Step + 1;
             journal = RunJournal.Reopen(resume, lastDone, clock.Time, start);
-            AnsiConsole.MarkupLineInterpolated($"Resuming after step {lastDone.Step} of {plan.Steps.Count}{(downtime is { } d ? $", {d.TotalSeconds:0} s after it stopped" : string.Empty)}.");
+            AnsiConsole.MarkupLineInterpolated($"Resuming after step {lastDone.Step} of {plan.Steps.Count}{(downtime is { } d ? $", {QuantityFormatter.Format(d.TotalSeconds, SiUnit.Second, 3)} after it stopped" : string.Empty)}.");
         }
         else
         {
@@ -313,7 +314,7 @@ internal static class RunCommand
             Terminal.Fail($"the {c.Role} ({c.Resource}) did not confirm that its output is off: {c.Problem}. Switch it off at the instrument now, before touching the wiring.", ExitCodes.InstrumentFailure);
         }
 
-        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "NOT confirmed off")}. {(simulated ? "Simulated" : "Bench")} time {benchTime.TotalSeconds:0.0} s, wall time {wallTime.TotalSeconds:0.00} s.");
+        AnsiConsole.MarkupLineInterpolated($"Outputs {(outcome.OutputsConfirmedOff ? "confirmed off" : "NOT confirmed off")}. {(simulated ? "Simulated" : "Bench")} time {QuantityFormatter.Format(benchTime.TotalSeconds, SiUnit.Second, 4)}, wall time {QuantityFormatter.Format(wallTime.TotalSeconds, SiUnit.Second, 3)}.");
     }
 
     /// <summary>Fits what was measured as far as it goes and writes <c>result.json</c>, also when no range could be fitted; ranges that cannot be

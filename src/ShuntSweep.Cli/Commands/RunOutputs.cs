@@ -2,6 +2,7 @@ using System.Text.Json;
 using System.Text.Json.Serialization;
 using ShuntSweep.Analysis.Results;
 using ShuntSweep.Core.Bench;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Engine.Running;
 using ShuntSweep.Reporting;
 using ShuntSweep.Reporting.Comparison;
@@ -137,7 +138,7 @@ internal static class RunOutputs
             if (r.Burden is { } b)
             {
                 cases.Add(new JUnitCase($"shuntsweep.run.{r.Name}", "burden", b.Fails ? JUnitOutcome.Failed : JUnitOutcome.Passed,
-                    $"drop at full scale {b.AtFullScaleVolts:G4} V against {b.SpecifiedVolts:G4} V specified; {b.CurvePointsAbove} of {b.CurvePoints} points above the limit curve"));
+                    $"drop at full scale {QuantityFormatter.Format(b.AtFullScaleVolts, SiUnit.Volt)} against {QuantityFormatter.Format(b.SpecifiedVolts, SiUnit.Volt)} specified; {b.CurvePointsAbove} of {b.CurvePoints} points above the limit curve"));
             }
 
             cases.Add(r.Conformity is { } c

@@ -122,6 +122,14 @@ public static class QuantityFormatter
         return Render((long)counts * q, place, unit, zeroPrefixPlace: place);
     }
 
+    /// <summary>Formats a fraction as a percentage to at most <paramref name="significant"/> digits (<c>80 %</c>, <c>+0.026 %</c> when
+    /// <paramref name="showSign"/>), so that limits and changes read like every other number the tool prints.</summary>
+    public static string FormatPercent(double fraction, int significant = 3, bool showSign = false)
+    {
+        var text = Format(fraction * 100, SiUnit.None, significant);
+        return (showSign && fraction > 0 && text != "0" ? "+" + text : text) + " %";
+    }
+
     /// <summary>A coverage factor as printed beside an expanded uncertainty: two decimals, as JCGM 100 Table G.2 gives it.</summary>
     public static string FormatCoverageFactor(double coverageFactor) =>
         double.IsFinite(coverageFactor) ? coverageFactor.ToString("0.00", CultureInfo.InvariantCulture) : "∞";

@@ -23,7 +23,7 @@ public static class Planner
         var remoteRange = bench.Instruments.ContainsKey(InstrumentRole.UutMeter);
         if (sequence.Limits.FuseDerating is not (> 0 and <= 1))
         {
-            violations.Add(new PlanViolation(0, 0, $"the fuse derating is {sequence.Limits.FuseDerating:P0}; it must be above 0 % and at most 100 % of the fuse rating (a fuse is never run above its rating)."));
+            violations.Add(new PlanViolation(0, 0, $"the fuse derating is {QuantityFormatter.FormatPercent(sequence.Limits.FuseDerating)}; it must be above 0 % and at most 100 % of the fuse rating (a fuse is never run above its rating)."));
         }
 
         string? jack = null;
@@ -111,7 +111,7 @@ public static class Planner
 
         if (plan.EstimatedDuration > PlanLimits.MaxDuration)
         {
-            violations.Add(new PlanViolation(0, 0, $"the plan would take about {plan.EstimatedDuration.TotalDays:0.#} days on the bench; at most {PlanLimits.MaxDurationText} are allowed. Split the sequence."));
+            violations.Add(new PlanViolation(0, 0, $"the plan would take about {QuantityFormatter.Format(plan.EstimatedDuration.TotalDays, SiUnit.None, 3)} days on the bench; at most {PlanLimits.MaxDurationText} are allowed. Split the sequence."));
         }
 
         return plan;
@@ -176,13 +176,13 @@ public static class Planner
         var maxOfRange = range.FullScale.Amperes * limits.MaxFractionOfFullScale;
         if (magnitude.Amperes > maxOfRange * (1 + 1e-9))
         {
-            Refuse($"{current} is above the {range.Name} range's limit of {new Current(maxOfRange)} ({limits.MaxFractionOfFullScale:P0} of its {range.FullScale} full scale).");
+            Refuse($"{current} is above the {range.Name} range's limit of {new Current(maxOfRange)} ({QuantityFormatter.FormatPercent(limits.MaxFractionOfFullScale)} of its {range.FullScale} full scale).");
         }
 
         var fuseLimit = jack.FuseRating.Amperes * limits.FuseDerating;
         if (magnitude.Amperes > fuseLimit * (1 + 1e-9))
         {
-            Refuse($"{current} is above the derated fuse rating of the {jack.Name} jack: {limits.FuseDerating:P0} of {jack.FuseRating} is {new Current(fuseLimit)}.");
+            Refuse($"{current} is above the derated fuse rating of the {jack.Name} jack: {QuantityFormatter.FormatPercent(limits.FuseDerating)} of {jack.FuseRating} is {new Current(fuseLimit)}.");
         }
 
         if (magnitude > bench.Supply.CurrentLimit)

@@ -615,7 +615,7 @@ public sealed class Runner
     private static string Describe(PlanStep step) => step switch
     {
         MeasureStep m => $"{m.Range} {m.Setpoint}",
-        HoldStep h => $"{h.Range} hold {h.Setpoint} for {h.Duration.TotalSeconds:0.#} s",
+        HoldStep h => $"{h.Range} hold {h.Setpoint} for {QuantityFormatter.Format(h.Duration.TotalSeconds, SiUnit.Second)}",
         RampStep r => $"{r.Range} ramp to {r.To}",
         PromptStep p => p.Text,
         _ => step.GetType().Name,

@@ -1,3 +1,4 @@
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Instruments;
 
 namespace ShuntSweep.Engine.Running;
@@ -38,7 +39,7 @@ public static class SafeOff
         // Switching off is idempotent: an attempt that did not confirm (a command the instrument missed, an error on the way) is made again until the deadline.
         using var deadline = new CancellationTokenSource(Deadline, time);
         var started = time.GetTimestamp();
-        var problem = $"no confirmation within {Deadline.TotalSeconds:0} s (it does not answer)";
+        var problem = $"no confirmation within {QuantityFormatter.Format(Deadline.TotalSeconds, SiUnit.Second)} (it does not answer)";
         while (true)
         {
             var left = Deadline - time.GetElapsedTime(started);
@@ -59,7 +60,7 @@ public static class SafeOff
             }
             catch (Exception ex) when (ex is OperationCanceledException or TimeoutException)
             {
-                return new OffCheck(role, resource, false, $"no confirmation within {Deadline.TotalSeconds:0} s (it does not answer)");
+                return new OffCheck(role, resource, false, $"no confirmation within {QuantityFormatter.Format(Deadline.TotalSeconds, SiUnit.Second)} (it does not answer)");
             }
             catch (Exception ex) when (ex is not OutOfMemoryException)
             {

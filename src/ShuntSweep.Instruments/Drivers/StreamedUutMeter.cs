@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text;
 using System.Threading.Channels;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Core.Timing;
 using ShuntSweep.Core.Uut;
 using ShuntSweep.Instruments.Messaging;
@@ -66,7 +67,7 @@ internal sealed class StreamedUutMeter : IUutMeter, IAsyncDisposable
         }
         catch (OperationCanceledException) when (timeout.IsCancellationRequested && !cancellationToken.IsCancellationRequested)
         {
-            throw new InstrumentTimeoutException(Resource, $"no line matching the reading pattern arrived within {limit.TotalSeconds:0.###} s.", limit);
+            throw new InstrumentTimeoutException(Resource, $"no line matching the reading pattern arrived within {QuantityFormatter.Format(limit.TotalSeconds, SiUnit.Second)}.", limit);
         }
         catch (ChannelClosedException ex)
         {

@@ -1,6 +1,7 @@
 using System.Net.Sockets;
 using System.Runtime.CompilerServices;
 using System.Text;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Instruments.Transports;
 
 namespace ShuntSweep.Instruments.Messaging;
@@ -678,7 +679,7 @@ public sealed class MessageSession : IAsyncDisposable
         _ => ScpiResponse.Shorten(terminator),
     };
 
-    private static string Seconds(TimeSpan t) => $"{t.TotalSeconds:0.###} s";
+    private static string Seconds(TimeSpan t) => QuantityFormatter.Format(t.TotalSeconds, SiUnit.Second);
 
     private void Consume(int count)
     {

@@ -2,6 +2,7 @@ using Polly;
 using Polly.CircuitBreaker;
 using Polly.Retry;
 using Polly.Timeout;
+using ShuntSweep.Core.Quantities;
 using ShuntSweep.Instruments.Messaging;
 
 namespace ShuntSweep.Instruments.Resilience;
@@ -102,7 +103,7 @@ internal sealed class InstrumentResilience
         }
         catch (TimeoutRejectedException ex)
         {
-            throw new InstrumentTimeoutException(Resource, $"the operation did not finish within {ex.Timeout.TotalSeconds:0.###} s, retries included.", ex.Timeout);
+            throw new InstrumentTimeoutException(Resource, $"the operation did not finish within {QuantityFormatter.Format(ex.Timeout.TotalSeconds, SiUnit.Second)}, retries included.", ex.Timeout);
         }
     }
 }

@@ -47,7 +47,7 @@ public sealed record DriftLimit(double Fraction, double? AbsoluteOhms = null)
     /// <summary>The limit in words, for tables and plots.</summary>
     public override string ToString() => AbsoluteOhms is { } a
         ? $"±{QuantityFormatter.Format(a, SiUnit.Ohm, 3)} from the first run"
-        : $"±{(Fraction * 100).ToString("0.###", CultureInfo.InvariantCulture)} % of the first run";
+        : $"±{QuantityFormatter.FormatPercent(Fraction)} of the first run";
 }
 
 /// <summary>One reading of a range compared with the range's first archived reading.</summary>

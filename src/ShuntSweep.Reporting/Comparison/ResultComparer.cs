@@ -100,9 +100,9 @@ public static class ResultComparer
         var allowed = fraction * Math.Abs(golden);
         var delta = actual - golden;
         var passed = Math.Abs(delta) <= allowed || (double.IsNaN(actual) && double.IsNaN(golden));
-        var percent = golden != 0 ? (100 * delta / golden).ToString("+0.####;-0.####;0", CultureInfo.InvariantCulture) + " %" : "—";
+        var percent = golden != 0 ? QuantityFormatter.FormatPercent(delta / golden, 3, showSign: true) : "—";
         return new CompareCheck(range, quantity, passed,
-            $"{quantity} {F(actual, unit)}, golden {F(golden, unit)}: change {percent}, allowed ±{(fraction * 100).ToString("0.####", CultureInfo.InvariantCulture)} %.");
+            $"{quantity} {F(actual, unit)}, golden {F(golden, unit)}: change {percent}, allowed ±{QuantityFormatter.FormatPercent(fraction)}.");
     }
 
     private static CompareCheck Absolute(string range, string quantity, double actual, double golden, double allowed, SiUnit unit)

@@ -104,8 +104,30 @@ internal sealed class BenchCircuit
         return 0;
     });
 
-    /// <summary>The operating point at the present instant.</summary>
-    public OperatingPoint Present() => At(c => c.Solve());
+    /// <summary>The operating point at the present instant (the one the advance to it solved).</summary>
+    public OperatingPoint Present()
+    {
+        lock (_gate)
+        {
+            AdvanceTo(_now());
+            return _solved ?? Solve();
+        }
+    }
+
+    /// <summary>Sets the voltmeter's range at the present instant; the operating point is solved again only when the range changes
+    /// (an autoranging voltmeter sets its range on every arm, mostly to the range it is on).</summary>
+    public void SetDmmRange(double range)
+    {
+        lock (_gate)
+        {
+            AdvanceTo(_now());
+            if (DmmRange != range)
+            {
+                DmmRange = range;
+                _solved = null;
+            }
+        }
+    }
 
     /// <summary>Schedules <paramref name="apply"/> at <paramref name="at"/> (a fault injected at a set time).</summary>
     public void Schedule(DateTimeOffset at, Action<BenchCircuit> apply)

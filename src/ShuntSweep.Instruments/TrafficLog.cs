@@ -12,6 +12,17 @@ namespace ShuntSweep.Instruments;
 /// </remarks>
 public sealed class TrafficLog : IDisposable
 {
+    /// <summary>How strings are escaped in the log: only what JSON requires, so SCPI text stays readable.</summary>
+    internal static readonly System.Text.Encodings.Web.JavaScriptEncoder Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping;
+
+    private static readonly JsonEncodedText TimeName = JsonEncodedText.Encode("t");
+    private static readonly JsonEncodedText ElapsedName = JsonEncodedText.Encode("elapsedS");
+    private static readonly JsonEncodedText RoleName = JsonEncodedText.Encode("role");
+    private static readonly JsonEncodedText ResourceName = JsonEncodedText.Encode("resource");
+    private static readonly JsonEncodedText NoteName = JsonEncodedText.Encode("note");
+    private static readonly JsonEncodedText SentName = JsonEncodedText.Encode("tx");
+    private static readonly JsonEncodedText ReceivedName = JsonEncodedText.Encode("rx");
+    private static readonly JsonEncodedText MillisecondsName = JsonEncodedText.Encode("ms");
     private readonly Lock _gate = new();
     private readonly FileStream _file;
     private readonly ArrayBufferWriter<byte> _buffer = new(512);
@@ -25,7 +36,7 @@ public sealed class TrafficLog : IDisposable
         _file = file;
         _clock = clock;
         _start = start;
-        _json = new Utf8JsonWriter(_buffer, new JsonWriterOptions { Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
+        _json = new Utf8JsonWriter(_buffer, new JsonWriterOptions { Encoder = Encoder });
     }
 
     /// <summary>Creates (or replaces) the log at <paramref name="path"/>; times come from <paramref name="clock"/> (the bench's, virtual on a simulated bench) and count from <paramref name="start"/>.</summary>
@@ -84,24 +95,27 @@ public sealed class TrafficLog : IDisposable
                 return;
             }
 
+            // The time as "O" gives (seven fraction digits, Z) straight into UTF-8, and the names pre-encoded: this runs on every exchange.
+            Span<byte> t = stackalloc byte[40];
+            now.UtcDateTime.TryFormat(t, out var length, "O", CultureInfo.InvariantCulture);
             _json.WriteStartObject();
-            _json.WriteString("t", now.UtcDateTime.ToString("yyyy-MM-dd'T'HH:mm:ss.fffffff'Z'", CultureInfo.InvariantCulture));
-            _json.WriteNumber("elapsedS", Math.Round((now - _start).TotalSeconds, 7));
-            _json.WriteString("role", tap.Role);
-            _json.WriteString("resource", tap.Resource);
+            _json.WriteString(TimeName, t[..length]);
+            _json.WriteNumber(ElapsedName, Math.Round((now - _start).TotalSeconds, 7));
+            _json.WriteString(RoleName, tap.EncodedRole);
+            _json.WriteString(ResourceName, tap.EncodedResource);
             if (note is not null)
             {
-                _json.WriteString("note", note);
+                _json.WriteString(NoteName, note);
             }
             else
             {
-                _json.WriteString("tx", sent);
+                _json.WriteString(SentName, sent);
                 if (received is not null)
                 {
-                    _json.WriteString("rx", received);
+                    _json.WriteString(ReceivedName, received);
                 }
 
-                _json.WriteNumber("ms", Math.Round(milliseconds, 3));
+                _json.WriteNumber(MillisecondsName, Math.Round(milliseconds, 3));
             }
 
             _json.WriteEndObject();
@@ -124,6 +138,8 @@ public sealed class TrafficTap
         _log = log;
         Role = role;
         Resource = resource;
+        EncodedRole = JsonEncodedText.Encode(role, TrafficLog.Encoder);
+        EncodedResource = JsonEncodedText.Encode(resource, TrafficLog.Encoder);
     }
 
     /// <summary>The instrument's bench role (<c>supply</c>, <c>dropMeter</c>, …).</summary>
@@ -131,6 +147,12 @@ public sealed class TrafficTap
 
     /// <summary>The instrument's resource string.</summary>
     public string Resource { get; }
+
+    /// <summary>The role as JSON, escaped once for every line it tags.</summary>
+    internal JsonEncodedText EncodedRole { get; }
+
+    /// <summary>The resource as JSON, escaped once for every line it tags.</summary>
+    internal JsonEncodedText EncodedResource { get; }
 
     /// <summary>Records one exchange: what was sent, what came back (null for a command without an answer), and how long it took on the wall clock.</summary>
     public void Exchange(string sent, string? received, double milliseconds) => _log.Write(this, sent, received, milliseconds, null);

@@ -1,6 +1,7 @@
 using System.Buffers;
 using System.Globalization;
 using System.Text.Json;
+using System.Threading.Channels;
 
 namespace ShuntSweep.Instruments;
 
@@ -8,7 +9,9 @@ namespace ShuntSweep.Instruments;
 /// <remarks>
 /// Lines are <c>{"t","elapsedS","role","resource","tx","rx","ms"}</c> (no <c>rx</c> for a command without an answer) and
 /// <c>{"t","elapsedS","role","resource","note"}</c> for what the session did on its own (a late answer discarded, a reconnect).
-/// Writing is buffered and costs no I/O on the exchange itself; disposing flushes, and the run disposes it on every way it ends.
+/// An exchange only queues its line, stamped with the clock's time; a writer thread of the log's own formats and writes the lines in
+/// the order they were queued, a few milliseconds' worth at a time, so the exchange pays for neither JSON nor I/O. <see cref="Flush"/>
+/// waits until everything queued is in the file; disposing writes the rest and closes it, and the run disposes it on every way it ends.
 /// </remarks>
 public sealed class TrafficLog : IDisposable
 {
@@ -23,20 +26,30 @@ public sealed class TrafficLog : IDisposable
     private static readonly JsonEncodedText SentName = JsonEncodedText.Encode("tx");
     private static readonly JsonEncodedText ReceivedName = JsonEncodedText.Encode("rx");
     private static readonly JsonEncodedText MillisecondsName = JsonEncodedText.Encode("ms");
-    private readonly Lock _gate = new();
+
+    /// <summary>How long the writer lets lines gather after writing a batch: one wake-up per batch, not one per exchange.</summary>
+    private static readonly TimeSpan Gather = TimeSpan.FromMilliseconds(2);
+
+    private readonly string _path;
     private readonly FileStream _file;
     private readonly ArrayBufferWriter<byte> _buffer = new(512);
     private readonly Utf8JsonWriter _json;
     private readonly TimeProvider _clock;
     private readonly DateTimeOffset _start;
-    private bool _disposed;
+    private readonly Channel<Line> _queue = Channel.CreateUnbounded<Line>(new UnboundedChannelOptions { SingleReader = true });
+    private readonly Thread _writer;
+    private Exception? _failure;
+    private int _disposed;
 
-    private TrafficLog(FileStream file, TimeProvider clock, DateTimeOffset start)
+    private TrafficLog(string path, FileStream file, TimeProvider clock, DateTimeOffset start)
     {
+        _path = path;
         _file = file;
         _clock = clock;
         _start = start;
         _json = new Utf8JsonWriter(_buffer, new JsonWriterOptions { Encoder = Encoder });
+        _writer = new Thread(WriteQueued) { IsBackground = true, Name = "traffic log" };
+        _writer.Start();
     }
 
     /// <summary>Creates (or replaces) the log at <paramref name="path"/>; times come from <paramref name="clock"/> (the bench's, virtual on a simulated bench) and count from <paramref name="start"/>.</summary>
@@ -50,82 +63,124 @@ public sealed class TrafficLog : IDisposable
             Directory.CreateDirectory(directory);
         }
 
-        return new TrafficLog(new FileStream(path, FileMode.Create, FileAccess.Write, FileShare.Read, 1 << 20), clock, start);
+        return new TrafficLog(path, new FileStream(path, FileMode.Create, FileAccess.Write, FileShare.Read, 1 << 20), clock, start);
     }
 
     /// <summary>The recorder of one instrument, tagged with its role and resource.</summary>
     public TrafficTap For(string role, string resource) => new(this, role, resource);
 
-    /// <summary>Writes what is buffered to the file.</summary>
+    /// <summary>Waits until every line queued so far is written to the file.</summary>
+    /// <exception cref="IOException">When the file could not be written (the message names it).</exception>
     public void Flush()
     {
-        lock (_gate)
+        using var written = new ManualResetEventSlim();
+        if (_queue.Writer.TryWrite(new Line(null, null, null, 0, null, default, written)))
         {
-            if (!_disposed)
-            {
-                _file.Flush();
-            }
+            written.Wait();
         }
+
+        ThrowIfFailed();
     }
 
-    /// <inheritdoc />
+    /// <summary>Writes the lines still queued and closes the file.</summary>
+    /// <exception cref="IOException">When the file could not be written (the message names it).</exception>
     public void Dispose()
     {
-        lock (_gate)
+        if (Interlocked.Exchange(ref _disposed, 1) != 0)
         {
-            if (_disposed)
-            {
-                return;
-            }
-
-            _disposed = true;
-            _json.Dispose();
-            _file.Dispose();
+            return;
         }
+
+        _queue.Writer.TryComplete();
+        _writer.Join();
+        _json.Dispose();
+        _file.Dispose();
+        ThrowIfFailed();
     }
 
-    /// <summary>Appends one line; <paramref name="received"/> null for a command without an answer, <paramref name="note"/> for a session note instead of an exchange.</summary>
-    internal void Write(TrafficTap tap, string? sent, string? received, double milliseconds, string? note)
+    /// <summary>Queues one line; <paramref name="received"/> null for a command without an answer, <paramref name="note"/> for a session note instead of an exchange.</summary>
+    internal void Write(TrafficTap tap, string? sent, string? received, double milliseconds, string? note) =>
+        _queue.Writer.TryWrite(new Line(tap, sent, received, milliseconds, note, _clock.GetUtcNow(), null));
+
+    private void ThrowIfFailed()
     {
-        var now = _clock.GetUtcNow();
-        lock (_gate)
+        if (Volatile.Read(ref _failure) is { } failure)
         {
-            if (_disposed)
-            {
-                return;
-            }
-
-            // The time as "O" gives (seven fraction digits, Z) straight into UTF-8, and the names pre-encoded: this runs on every exchange.
-            Span<byte> t = stackalloc byte[40];
-            now.UtcDateTime.TryFormat(t, out var length, "O", CultureInfo.InvariantCulture);
-            _json.WriteStartObject();
-            _json.WriteString(TimeName, t[..length]);
-            _json.WriteNumber(ElapsedName, Math.Round((now - _start).TotalSeconds, 7));
-            _json.WriteString(RoleName, tap.EncodedRole);
-            _json.WriteString(ResourceName, tap.EncodedResource);
-            if (note is not null)
-            {
-                _json.WriteString(NoteName, note);
-            }
-            else
-            {
-                _json.WriteString(SentName, sent);
-                if (received is not null)
-                {
-                    _json.WriteString(ReceivedName, received);
-                }
-
-                _json.WriteNumber(MillisecondsName, Math.Round(milliseconds, 3));
-            }
-
-            _json.WriteEndObject();
-            _json.Flush();
-            _file.Write(_buffer.WrittenSpan);
-            _file.WriteByte((byte)'\n');
-            _buffer.ResetWrittenCount();
-            _json.Reset();
+            throw new IOException($"The traffic log {_path} could not be written: {failure.Message}", failure);
         }
     }
+
+    /// <summary>The writer thread: formats and writes what is queued until the log is disposed; after a failed write it only drains.</summary>
+    private void WriteQueued()
+    {
+        var reader = _queue.Reader;
+        while (reader.WaitToReadAsync().AsTask().GetAwaiter().GetResult())
+        {
+            while (reader.TryRead(out var line))
+            {
+                try
+                {
+                    if (line.Written is { } written)
+                    {
+                        if (_failure is null)
+                        {
+                            _file.Flush();
+                        }
+
+                        written.Set();
+                    }
+                    else if (_failure is null)
+                    {
+                        Format(line);
+                    }
+                }
+                catch (IOException ex)
+                {
+                    Volatile.Write(ref _failure, ex);
+                    line.Written?.Set();
+                }
+            }
+
+            Thread.Sleep(Gather);
+        }
+    }
+
+    private void Format(Line line)
+    {
+        // The time as "O" gives (seven fraction digits, Z) straight into UTF-8, and the names pre-encoded.
+        Span<byte> t = stackalloc byte[40];
+        line.Time.UtcDateTime.TryFormat(t, out var length, "O", CultureInfo.InvariantCulture);
+        _json.WriteStartObject();
+        _json.WriteString(TimeName, t[..length]);
+        _json.WriteNumber(ElapsedName, Math.Round((line.Time - _start).TotalSeconds, 7));
+        _json.WriteString(RoleName, line.Tap!.EncodedRole);
+        _json.WriteString(ResourceName, line.Tap.EncodedResource);
+        if (line.Note is not null)
+        {
+            _json.WriteString(NoteName, line.Note);
+        }
+        else
+        {
+            _json.WriteString(SentName, line.Sent);
+            if (line.Received is not null)
+            {
+                _json.WriteString(ReceivedName, line.Received);
+            }
+
+            _json.WriteNumber(MillisecondsName, Math.Round(line.Milliseconds, 3));
+        }
+
+        _json.WriteEndObject();
+        _json.Flush();
+        _file.Write(_buffer.WrittenSpan);
+        _file.WriteByte((byte)'\n');
+        _buffer.ResetWrittenCount();
+        _json.Reset();
+    }
+
+    /// <summary>One queued line as the exchange left it, or (with <paramref name="Written"/>) a request to be told once the file holds
+    /// everything queued before it.</summary>
+    private readonly record struct Line(TrafficTap? Tap, string? Sent, string? Received, double Milliseconds, string? Note, DateTimeOffset Time, ManualResetEventSlim? Written);
 }
 
 /// <summary>Records the traffic of one instrument into its <see cref="TrafficLog"/>.</summary>

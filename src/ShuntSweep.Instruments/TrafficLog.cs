@@ -1,7 +1,7 @@
 using System.Buffers;
+using System.Collections.Concurrent;
 using System.Globalization;
 using System.Text.Json;
-using System.Threading.Channels;
 
 namespace ShuntSweep.Instruments;
 
@@ -10,7 +10,7 @@ namespace ShuntSweep.Instruments;
 /// Lines are <c>{"t","elapsedS","role","resource","tx","rx","ms"}</c> (no <c>rx</c> for a command without an answer) and
 /// <c>{"t","elapsedS","role","resource","note"}</c> for what the session did on its own (a late answer discarded, a reconnect).
 /// An exchange only queues its line, stamped with the clock's time; a writer thread of the log's own formats and writes the lines in
-/// the order they were queued, a few milliseconds' worth at a time, so the exchange pays for neither JSON nor I/O. <see cref="Flush"/>
+/// the order they were queued, woken once per batch of lines, so the exchange pays for neither JSON nor I/O. <see cref="Flush"/>
 /// waits until everything queued is in the file; disposing writes the rest and closes it, and the run disposes it on every way it ends.
 /// </remarks>
 public sealed class TrafficLog : IDisposable
@@ -27,8 +27,9 @@ public sealed class TrafficLog : IDisposable
     private static readonly JsonEncodedText ReceivedName = JsonEncodedText.Encode("rx");
     private static readonly JsonEncodedText MillisecondsName = JsonEncodedText.Encode("ms");
 
-    /// <summary>How long the writer lets lines gather after writing a batch: one wake-up per batch, not one per exchange.</summary>
-    private static readonly TimeSpan Gather = TimeSpan.FromMilliseconds(2);
+    /// <summary>How many lines are queued per wake-up of the writer (a power of two): waking it for every line would cost the exchange
+    /// more than formatting the line itself.</summary>
+    private const int Batch = 256;
 
     private readonly string _path;
     private readonly FileStream _file;
@@ -36,10 +37,14 @@ public sealed class TrafficLog : IDisposable
     private readonly Utf8JsonWriter _json;
     private readonly TimeProvider _clock;
     private readonly DateTimeOffset _start;
-    private readonly Channel<Line> _queue = Channel.CreateUnbounded<Line>(new UnboundedChannelOptions { SingleReader = true });
+    private readonly Lock _gate = new();
+    private readonly ConcurrentQueue<Line> _queue = new();
+    // Never disposed: a Write racing Dispose may still release it, and it holds no handle unless one is asked for.
+    private readonly SemaphoreSlim _wake = new(0);
     private readonly Thread _writer;
     private Exception? _failure;
-    private int _disposed;
+    private int _queued;
+    private volatile bool _closing;
 
     private TrafficLog(string path, FileStream file, TimeProvider clock, DateTimeOffset start)
     {
@@ -74,11 +79,21 @@ public sealed class TrafficLog : IDisposable
     public void Flush()
     {
         using var written = new ManualResetEventSlim();
-        if (_queue.Writer.TryWrite(new Line(null, null, null, 0, null, default, written)))
+        lock (_gate)
         {
-            written.Wait();
+            // Under the lock, so that the request is queued before a concurrent Dispose closes the queue, never after its last drain.
+            if (_closing)
+            {
+                written.Set();
+            }
+            else
+            {
+                _queue.Enqueue(new Line(null, null, null, 0, null, default, written));
+                _wake.Release();
+            }
         }
 
+        written.Wait();
         ThrowIfFailed();
     }
 
@@ -86,12 +101,17 @@ public sealed class TrafficLog : IDisposable
     /// <exception cref="IOException">When the file could not be written (the message names it).</exception>
     public void Dispose()
     {
-        if (Interlocked.Exchange(ref _disposed, 1) != 0)
+        lock (_gate)
         {
-            return;
+            if (_closing)
+            {
+                return;
+            }
+
+            _closing = true;
+            _wake.Release();
         }
 
-        _queue.Writer.TryComplete();
         _writer.Join();
         _json.Dispose();
         _file.Dispose();
@@ -99,8 +119,19 @@ public sealed class TrafficLog : IDisposable
     }
 
     /// <summary>Queues one line; <paramref name="received"/> null for a command without an answer, <paramref name="note"/> for a session note instead of an exchange.</summary>
-    internal void Write(TrafficTap tap, string? sent, string? received, double milliseconds, string? note) =>
-        _queue.Writer.TryWrite(new Line(tap, sent, received, milliseconds, note, _clock.GetUtcNow(), null));
+    internal void Write(TrafficTap tap, string? sent, string? received, double milliseconds, string? note)
+    {
+        if (_closing)
+        {
+            return;
+        }
+
+        _queue.Enqueue(new Line(tap, sent, received, milliseconds, note, _clock.GetUtcNow(), null));
+        if ((Interlocked.Increment(ref _queued) & (Batch - 1)) == 0)
+        {
+            _wake.Release();
+        }
+    }
 
     private void ThrowIfFailed()
     {
@@ -113,10 +144,11 @@ public sealed class TrafficLog : IDisposable
     /// <summary>The writer thread: formats and writes what is queued until the log is disposed; after a failed write it only drains.</summary>
     private void WriteQueued()
     {
-        var reader = _queue.Reader;
-        while (reader.WaitToReadAsync().AsTask().GetAwaiter().GetResult())
+        while (true)
         {
-            while (reader.TryRead(out var line))
+            _wake.Wait();
+            var closing = _closing;
+            while (_queue.TryDequeue(out var line))
             {
                 try
                 {
@@ -141,7 +173,10 @@ public sealed class TrafficLog : IDisposable
                 }
             }
 
-            Thread.Sleep(Gather);
+            if (closing)
+            {
+                return;
+            }
         }
     }
 

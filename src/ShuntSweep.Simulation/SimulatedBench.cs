@@ -58,7 +58,7 @@ public sealed class SimulatedBench : IAsyncDisposable
             {
                 "supply" => SupplyInstrument.Create(circuit, clock, random),
                 "load" => LoadInstrument.Create(circuit, clock, random),
-                "dmm" => VoltmeterInstrument.Create(circuit, settings.Dmm!, op => op.JackVoltage, range => circuit.Change(b => b.DmmRange = range), clock, random),
+                "dmm" => VoltmeterInstrument.Create(circuit, settings.Dmm!, op => op.JackVoltage, circuit.SetDmmRange, clock, random),
                 "tap" => VoltmeterInstrument.Create(circuit, settings.Tap!, op => op.ShuntVoltage, _ => { }, clock, random),
                 "uut" => UutInstrument.Create(circuit, clock, random),
                 "ref" => ReferenceInstrument.Create(circuit, clock, random),

@@ -35,4 +35,29 @@ public sealed class TrafficLogTests
         Assert.Equal(1.5, lines[1].GetProperty("elapsedS").GetDouble(), 9);
         Assert.True(lines[0].GetProperty("ms").GetDouble() >= 0);
     }
+
+    [Fact]
+    public void Flush_PutsEveryLineQueuedBeforeIt_InTheFile_InOrder_WhileTheLogStaysOpen()
+    {
+        // Exchanges only queue their lines (the writer thread formats them); a reader of the file after Flush sees them all, in order
+        // (the log's own contract: common practice, no source).
+        var path = Path.Combine(Directory.CreateTempSubdirectory("shuntsweep-traffic-").FullName, "traffic.jsonl");
+        var clock = new VirtualTimeProvider();
+        using var log = TrafficLog.Create(path, clock, clock.GetUtcNow());
+        var tap = log.For("dropMeter", "SIM::dmm");
+        for (var i = 0; i < 1000; i++)
+        {
+            tap.Exchange($"SENS:VOLT:NPLC {i}", null, 0.001);
+            clock.Advance(TimeSpan.FromMilliseconds(1));
+        }
+
+        tap.Note("the last line");
+        log.Flush();
+        using var file = new StreamReader(new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite));
+        var lines = file.ReadToEnd().Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(l => JsonDocument.Parse(l).RootElement).ToList();
+        Assert.Equal(1001, lines.Count);
+        Assert.Equal(Enumerable.Range(0, 1000).Select(i => $"SENS:VOLT:NPLC {i}"), lines.Take(1000).Select(l => l.GetProperty("tx").GetString()));
+        Assert.Equal(0.999, lines[999].GetProperty("elapsedS").GetDouble(), 9);
+        Assert.Equal("the last line", lines[1000].GetProperty("note").GetString());
+    }
 }

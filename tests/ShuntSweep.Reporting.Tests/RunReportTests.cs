@@ -85,6 +85,26 @@ public sealed class RunReportTests
     }
 
     [Fact]
+    public void Write_Twice_GivesTheSameSvgFiles_WhateverWasDrawnBefore()
+    {
+        // Skia numbers the clip paths of an SVG per process and plots are drawn in parallel: the files must not show either.
+        using var run = DemoRun.Create();
+        RunReport.Write(run.Directory);
+        var plots = Path.Combine(run.Directory, "plots");
+        var first = Directory.GetFiles(plots, "*.svg").Order(StringComparer.Ordinal).Select(File.ReadAllText).ToList();
+        RunReport.Write(run.Directory);
+        var second = Directory.GetFiles(plots, "*.svg").Order(StringComparer.Ordinal).Select(File.ReadAllText).ToList();
+        Assert.NotEmpty(first);
+        Assert.Equal(first, second);
+        foreach (var svg in first)
+        {
+            // Every reference names an element of the same document (SVG 1.1 §5.3.2, IRI references).
+            var ids = Regex.Matches(svg, "id=\"([^\"]+)\"").Select(m => m.Groups[1].Value).ToHashSet(StringComparer.Ordinal);
+            Assert.All(Regex.Matches(svg, "url\\(#([^)]+)\\)"), m => Assert.Contains(m.Groups[1].Value, ids));
+        }
+    }
+
+    [Fact]
     public void Write_ThermalHoldPlot_IsDrawnWhenTheResultHasAHold()
     {
         using var run = DemoRun.Create();

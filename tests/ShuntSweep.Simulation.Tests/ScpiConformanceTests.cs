@@ -148,6 +148,28 @@ public sealed class ScpiConformanceTests
     }
 
     [Fact]
+    public async Task RepeatedLine_RunsAgainEachTime_WithItsErrorsAndTheStateOfTheMoment()
+    {
+        // The simulator remembers how a line it has seen parsed; a line sent again must still act as SCPI-99 says it does each time:
+        // FETC? without INIT queues -230 Data corrupt or stale (SCPI-99 vol. 2 §21.8, execution errors; cited from memory) every time,
+        // and a compound query answers from the settings of the moment (IEEE 488.2 §8.4.1: units joined by ";").
+        await using var rig = Rig.Open(Benches.Handheld);
+        for (var i = 0; i < 3; i++)
+        {
+            await rig.Dmm.SendAsync("FETC?");
+            Assert.Equal("-230", (await rig.Dmm.QueryAsync("SYST:ERR?")).Split(',')[0]);
+        }
+
+        await rig.Dmm.SendAsync("SENS:VOLT:NPLC 10");
+        Assert.Equal("+1.000000000E+01;+1.000000000E+01", await rig.Dmm.QueryAsync("SENS:VOLT:NPLC?;:SENS:VOLT:NPLC?"));
+        await rig.Dmm.SendAsync("SENS:VOLT:NPLC 1");
+        Assert.Equal("+1.000000000E+00;+1.000000000E+00", await rig.Dmm.QueryAsync("SENS:VOLT:NPLC?;:SENS:VOLT:NPLC?"));
+        await rig.Dmm.SendAsync("BOGUS:HEADER");
+        await rig.Dmm.SendAsync("BOGUS:HEADER");
+        Assert.Equal(2, (await rig.Dmm.DrainErrorsAsync()).Count(e => e.StartsWith("-113", StringComparison.Ordinal)));
+    }
+
+    [Fact]
     public async Task ExecutionErrors_QueueStandardCodes_AndLeaveSettingsUnchanged()
     {
         await using var rig = Rig.Open(Benches.Handheld);

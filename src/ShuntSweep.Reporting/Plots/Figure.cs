@@ -32,10 +32,13 @@ internal static partial class Figure
         for (var i = 0; i < panels.Length; i++)
         {
             var plot = panels[i].Plot;
-            using (var bitmap = SKBitmap.Decode(plot.GetImageBytes(Width, heights[i], ImageFormat.Png)))
-            {
-                surface.Canvas.DrawBitmap(bitmap, 0, top);
-            }
+
+            // Drawn straight onto the figure's canvas: a PNG of the panel encoded and decoded again cost as much as the drawing.
+            surface.Canvas.Save();
+            surface.Canvas.Translate(0, top);
+            surface.Canvas.ClipRect(new SKRect(0, 0, Width, heights[i]));
+            plot.Render(surface.Canvas, Width, heights[i]);
+            surface.Canvas.Restore();
 
             svg.Append(CultureInfo.InvariantCulture, $"<g transform=\"translate(0 {top})\">").Append(Nestable(plot.GetSvgXml(Width, heights[i]), $"p{i}-")).Append("</g>");
             top += heights[i];
@@ -43,22 +46,39 @@ internal static partial class Figure
         }
 
         svg.Append("</svg>");
-        using var image = surface.Snapshot();
-        using var data = image.Encode(SKEncodedImageFormat.Png, 100);
+        using var pixels = surface.PeekPixels() ?? throw new InvalidOperationException("A raster surface has no pixels to encode.");
+        // One filter and zlib level 3: a third of the default encoder's time (all filters tried per row, level 6) for 3 % larger plots.
+        using var data = pixels.Encode(new SKPngEncoderOptions(SKPngEncoderFilterFlags.Sub, 3)) ?? throw new InvalidOperationException("The PNG encoder failed.");
         return new RenderedPlot(name, caption, data.ToArray(), svg.ToString());
     }
 
-    /// <summary>A panel's SVG without its XML declaration and with its element ids prefixed, so panels nest in one document without id clashes.</summary>
+    /// <summary>A panel's SVG without its XML declaration and with its element ids renamed <c>{prefix}{n}</c> in order of appearance, so panels
+    /// nest in one document without id clashes and the file is the same whatever else was drawn before it (Skia numbers clip paths per process).</summary>
     private static string Nestable(string svg, string prefix)
     {
         var open = svg.IndexOf("<svg", StringComparison.Ordinal);
         var body = open >= 0 ? svg[open..] : svg;
-        body = IdAttribute().Replace(body, m => $"id=\"{prefix}{m.Groups[1].Value}\"");
-        return body.Replace("url(#", $"url(#{prefix}", StringComparison.Ordinal).Replace("href=\"#", $"href=\"#{prefix}", StringComparison.Ordinal);
+        var names = new Dictionary<string, string>(StringComparer.Ordinal);
+        body = IdAttribute().Replace(body, m => $"id=\"{Rename(m.Groups[1].Value)}\"");
+        return IdReference().Replace(body, m => m.Groups[1].Success ? $"url(#{Rename(m.Groups[1].Value)})" : $"href=\"#{Rename(m.Groups[2].Value)}\"");
+
+        string Rename(string id)
+        {
+            if (!names.TryGetValue(id, out var name))
+            {
+                name = prefix + names.Count.ToString(CultureInfo.InvariantCulture);
+                names.Add(id, name);
+            }
+
+            return name;
+        }
     }
 
     [GeneratedRegex("id=\"([^\"]+)\"")]
     private static partial Regex IdAttribute();
+
+    [GeneratedRegex("url\\(#([^)]+)\\)|href=\"#([^\"]+)\"")]
+    private static partial Regex IdReference();
 
     private static int[] Heights(int height, (Plot Plot, float Weight)[] panels)
     {

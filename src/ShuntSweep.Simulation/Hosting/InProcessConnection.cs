@@ -1,22 +1,18 @@
-using System.IO.Pipelines;
-
 namespace ShuntSweep.Simulation.Hosting;
 
 /// <summary>The client end of an in-process connection: a write executes its complete commands before it returns; responses are read back
-/// from an in-memory pipe, as from a socket.</summary>
+/// from an in-memory buffer, as from a socket (at once when they are there, which they are when no fault delays them).</summary>
 internal sealed class InProcessConnection : Stream
 {
     private readonly ScpiSession _session;
-    private readonly Stream _responses;
+    private readonly ReplyBuffer _responses = new();
     private readonly CancellationToken _stop;
     private int _disposed;
 
     /// <summary>Opens a connection to <paramref name="instrument"/>; <paramref name="stop"/> ends it when the bench is disposed.</summary>
     public InProcessConnection(SimulatedInstrument instrument, CancellationToken stop)
     {
-        var pipe = new Pipe();
-        _responses = pipe.Reader.AsStream();
-        _session = new ScpiSession(instrument, pipe.Writer.AsStream(), stop);
+        _session = new ScpiSession(instrument, _responses, stop);
         _stop = stop;
     }
 

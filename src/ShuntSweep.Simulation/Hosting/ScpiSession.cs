@@ -22,8 +22,10 @@ internal sealed class ScpiSession : IAsyncDisposable
     private readonly Stream _output;
     private readonly CancellationTokenSource _stop;
     private readonly Channel<(FaultContext Context, byte[] Reply)> _replies = Channel.CreateUnbounded<(FaultContext, byte[])>(new UnboundedChannelOptions { SingleReader = true });
-    private readonly List<byte> _line = [];
+    private readonly ReplyBuffer? _inline;
     private readonly Task _pump;
+    private byte[] _line = new byte[256];
+    private int _lineLength;
     private readonly Action<string>? _dropped;
     private long _pending;
     private bool _overrun;
@@ -39,6 +41,26 @@ internal sealed class ScpiSession : IAsyncDisposable
         _pump = PumpAsync();
     }
 
+    /// <summary>Starts an in-process session that appends its responses to <paramref name="replies"/>, the client's read side.</summary>
+    /// <remarks>Without faults on the instrument each response is appended before <see cref="AcceptAsync"/> returns, on the caller's thread:
+    /// no task, channel or thread switch per exchange. With faults, responses go through them on the reply task as on a socket.</remarks>
+    public ScpiSession(SimulatedInstrument instrument, ReplyBuffer replies, CancellationToken cancellationToken)
+    {
+        _instrument = instrument;
+        _output = replies;
+        _stop = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken);
+        if (instrument.Faults.Count == 0)
+        {
+            _inline = replies;
+            _replies.Writer.TryComplete();
+            _pump = Task.CompletedTask;
+        }
+        else
+        {
+            _pump = PumpAsync();
+        }
+    }
+
     /// <summary>True once the instrument has dropped the connection (a fault) or the session was closed.</summary>
     public bool IsClosed => _closed;
 
@@ -52,33 +74,44 @@ internal sealed class ScpiSession : IAsyncDisposable
     /// <summary>Takes bytes that arrived between the wall-clock timestamps <paramref name="earliest"/> (the earliest they can have arrived) and <paramref name="latest"/>.</summary>
     private async ValueTask<bool> AcceptAtAsync(ReadOnlyMemory<byte> data, long earliest, long latest, CancellationToken cancellationToken)
     {
-        for (var i = 0; i < data.Length && !_closed; i++)
+        var at = 0;
+        while (at < data.Length && !_closed)
         {
-            var b = data.Span[i];
-            if (b != _instrument.LineEnd)
+            var rest = data.Span[at..];
+            var end = rest.IndexOf(_instrument.LineEnd);
+            var chunk = end < 0 ? rest : rest[..end];
+            if (_lineLength + chunk.Length <= MaxLine && !_overrun)
             {
-                if (_line.Count < MaxLine)
+                if (_lineLength + chunk.Length > _line.Length)
                 {
-                    _line.Add(b);
-                }
-                else
-                {
-                    _overrun = true;
+                    Array.Resize(ref _line, Math.Min(MaxLine, Math.Max(_line.Length * 2, _lineLength + chunk.Length)));
                 }
 
-                continue;
+                chunk.CopyTo(_line.AsSpan(_lineLength));
+                _lineLength += chunk.Length;
+            }
+            else
+            {
+                // The bytes that fit are kept as before; the line is lost either way.
+                _overrun = true;
             }
 
+            if (end < 0)
+            {
+                break;
+            }
+
+            at += end + 1;
             if (_overrun)
             {
                 _instrument.Front.Push(ScpiErrors.InputBufferOverrun);
                 _overrun = false;
-                _line.Clear();
+                _lineLength = 0;
                 continue;
             }
 
-            var text = Encoding.Latin1.GetString(_line.ToArray()).TrimEnd('\r', '\n');
-            _line.Clear();
+            var text = Encoding.Latin1.GetString(_line.AsSpan(0, _lineLength).TrimEnd("\r\n"u8));
+            _lineLength = 0;
             await HandleAsync(text, earliest, latest, cancellationToken);
         }
 
@@ -158,7 +191,18 @@ internal sealed class ScpiSession : IAsyncDisposable
         }
 
         var response = await _instrument.Front.ExecuteAsync(text, earliest, latest, cancellationToken);
-        if (response is not null)
+        if (response is not null && _inline is { } inline)
+        {
+            if (inline.Unread + response.Length + _instrument.ReplyEnd.Length > MaxPendingBytes)
+            {
+                _closed = true;
+                await _stop.CancelAsync();
+                return;
+            }
+
+            inline.Append(response, _instrument.ReplyEnd);
+        }
+        else if (response is not null)
         {
             var reply = Encoding.ASCII.GetBytes(response + _instrument.ReplyEnd);
             if (Interlocked.Add(ref _pending, reply.Length) > MaxPendingBytes)

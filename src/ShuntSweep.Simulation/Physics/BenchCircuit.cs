@@ -11,7 +11,12 @@ internal sealed class BenchCircuit
     private readonly Func<DateTimeOffset> _now;
     private readonly List<Window> _windows = [];
     private readonly List<(DateTimeOffset At, Action<BenchCircuit> Apply)> _events = [];
+    private readonly Dictionary<UutRange, ThermalElement[]> _idleParts = [];
     private DateTimeOffset _time;
+
+    // The operating point at _time, kept while nothing has changed since it was solved (a poll arms and fetches at instants the physics
+    // was just brought to); any action run through At forgets it, since an action may change a setting.
+    private OperatingPoint? _solved;
 
     /// <summary>Creates the circuit at the clock's present instant.</summary>
     public BenchCircuit(UutModel uut, double wiring, VoltmeterPhysics? dmm, ReferencePhysics? reference, SupplyPhysics supply, LoadPhysics load, Func<DateTimeOffset> now)
@@ -81,7 +86,14 @@ internal sealed class BenchCircuit
         lock (_gate)
         {
             AdvanceTo(_now());
-            return action(this);
+            try
+            {
+                return action(this);
+            }
+            finally
+            {
+                _solved = null;
+            }
         }
     }
 
@@ -92,8 +104,30 @@ internal sealed class BenchCircuit
         return 0;
     });
 
-    /// <summary>The operating point at the present instant.</summary>
-    public OperatingPoint Present() => At(c => c.Solve());
+    /// <summary>The operating point at the present instant (the one the advance to it solved).</summary>
+    public OperatingPoint Present()
+    {
+        lock (_gate)
+        {
+            AdvanceTo(_now());
+            return _solved ?? Solve();
+        }
+    }
+
+    /// <summary>Sets the voltmeter's range at the present instant; the operating point is solved again only when the range changes
+    /// (an autoranging voltmeter sets its range on every arm, mostly to the range it is on).</summary>
+    public void SetDmmRange(double range)
+    {
+        lock (_gate)
+        {
+            AdvanceTo(_now());
+            if (DmmRange != range)
+            {
+                DmmRange = range;
+                _solved = null;
+            }
+        }
+    }
 
     /// <summary>Schedules <paramref name="apply"/> at <paramref name="at"/> (a fault injected at a set time).</summary>
     public void Schedule(DateTimeOffset at, Action<BenchCircuit> apply)
@@ -178,8 +212,8 @@ internal sealed class BenchCircuit
         // Dropout: below its minimum voltage the load's current falls in proportion to its voltage (I = Iset·V/Vmin).
         var xd = Root(v =>
         {
-            var b = Branch(v);
-            return vs - (b.Total * external) - b.Jack - (vmin * b.Total / iset);
+            var total = BranchTotal(v, out var jack);
+            return vs - (total * external) - jack - (vmin * total / iset);
         }, decreasing: true);
         var pd = Branch(xd);
         if (pd.Total <= SupplyLimit)
@@ -203,29 +237,41 @@ internal sealed class BenchCircuit
     private BranchPoint Branch(double x)
     {
         var range = Uut.Selected;
+        var total = BranchTotal(x, out var jack, out var iuut);
+        return range.Jack.Fuse.IsOpen
+            ? new BranchPoint(total, 0, x, 0, range.FrontEnd.Sensed(0))
+            : new BranchPoint(total, iuut, jack, x, range.FrontEnd.Sensed(x));
+    }
+
+    /// <summary>The branch's total current and its jack voltage alone, which is all the root finders need (the sensed value is left out).</summary>
+    private double BranchTotal(double x, out double jack) => BranchTotal(x, out jack, out _);
+
+    private double BranchTotal(double x, out double jack, out double uut)
+    {
+        var range = Uut.Selected;
         var rin = DmmInputResistance;
         if (range.Jack.Fuse.IsOpen)
         {
-            var leak = double.IsPositiveInfinity(rin) ? 0 : x / rin;
-            return new BranchPoint(leak, 0, x, 0, range.FrontEnd.Sensed(0));
+            jack = x;
+            uut = 0;
+            return double.IsPositiveInfinity(rin) ? 0 : x / rin;
         }
 
-        var iuut = range.CurrentAt(x);
-        var jack = x + (iuut * (range.Jack.Fuse.Element.Resistance + range.Jack.Contacts));
-        var total = iuut + (double.IsPositiveInfinity(rin) ? 0 : jack / rin);
-        return new BranchPoint(total, iuut, jack, x, range.FrontEnd.Sensed(x));
+        uut = range.CurrentAt(x);
+        jack = x + (uut * (range.Jack.Fuse.Element.Resistance + range.Jack.Contacts));
+        return uut + (double.IsPositiveInfinity(rin) ? 0 : jack / rin);
     }
 
     private bool TrySolveForCurrent(double target, out double x)
     {
         var lo = 0.0;
         var hi = 1e-3;
-        while (Branch(lo).Total > target && lo > -1e7)
+        while (BranchTotal(lo, out _) > target && lo > -1e7)
         {
             lo = (lo * 4) - 1e-3;
         }
 
-        while (Branch(hi).Total < target)
+        while (BranchTotal(hi, out _) < target)
         {
             hi *= 4;
             if (hi > 1e7)
@@ -235,7 +281,7 @@ internal sealed class BenchCircuit
             }
         }
 
-        x = Bisect(v => Branch(v).Total - target, lo, hi);
+        x = Bisect(v => BranchTotal(v, out _) - target, lo, hi);
         return true;
     }
 
@@ -284,7 +330,8 @@ internal sealed class BenchCircuit
     /// <summary>Integrates the thermal ODEs and the armed windows from the last update to <paramref name="target"/>.</summary>
     private void AdvanceTo(DateTimeOffset target)
     {
-        var op = Solve();
+        var op = _solved ?? Solve();
+        _solved = null;
         foreach (var w in _windows)
         {
             w.TakeInstant(_time, op);
@@ -343,12 +390,21 @@ internal sealed class BenchCircuit
                 w.Accumulate(from, _time, previous, op);
             }
         }
+
+        _solved = op;
     }
 
-    private IEnumerable<ThermalElement> IdleParts(UutRange selected)
+    /// <summary>The parts of other ranges that <paramref name="selected"/> does not share, worked out once per range.</summary>
+    private ThermalElement[] IdleParts(UutRange selected)
     {
-        var active = selected.FrontEnd.Parts;
-        return Uut.Ranges.SelectMany(r => r.FrontEnd.Parts).Distinct().Where(p => !active.Contains(p));
+        if (!_idleParts.TryGetValue(selected, out var idle))
+        {
+            var active = selected.FrontEnd.Parts;
+            idle = [.. Uut.Ranges.SelectMany(r => r.FrontEnd.Parts).Distinct().Where(p => !active.Contains(p))];
+            _idleParts.Add(selected, idle);
+        }
+
+        return idle;
     }
 
     /// <summary>Lets the parts that carry no current cool; with no power the exponential step is exact for any length of step.</summary>

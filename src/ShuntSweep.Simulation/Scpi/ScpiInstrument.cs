@@ -9,7 +9,12 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
     /// <summary>The error queue depth; on overflow the newest entry becomes -350 (SCPI-99 vol. 2 §21.8.2).</summary>
     public const int QueueCapacity = 20;
 
+    /// <summary>The most distinct lines remembered with their matched headers.</summary>
+    private const int MaxRemembered = 256;
+
     private readonly Queue<(int Code, string? Detail)> _errors = new();
+    private readonly Dictionary<string, Step[]> _remembered = new(StringComparer.Ordinal);
+    private readonly StringBuilder _response = new();
     private readonly SemaphoreSlim _turn = new(1, 1);
     private readonly Lock _status = new();
     private readonly Action _reset;
@@ -43,13 +48,31 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
     public ScpiCommandSet Commands { get; }
 
     /// <summary>Executes one program message (a line without its terminator); returns the response message, or null when nothing was queried.</summary>
+    /// <remarks>A line whose every unit parsed and matched a header is remembered with its matches (up to <see cref="MaxRemembered"/> lines), so that
+    /// the same line again (a settling poll's <c>INIT</c> and <c>FETC?</c>) runs its handlers without being parsed and matched again.</remarks>
     public async ValueTask<string?> ExecuteAsync(string line, CancellationToken cancellationToken)
     {
         await _turn.WaitAsync(cancellationToken);
         try
         {
-            var response = new StringBuilder();
+            var response = _response.Clear();
             var queried = false;
+            if (_remembered.TryGetValue(line, out var steps))
+            {
+                foreach (var step in steps)
+                {
+                    queried |= step.Unit.IsQuery;
+                    if (!await RunAsync(step, response))
+                    {
+                        break;
+                    }
+                }
+
+                return queried && response.Length > 0 ? response.ToString() : null;
+            }
+
+            var resolved = new List<Step>();
+            var complete = true;
             IReadOnlyList<string> path = [];
             foreach (var text in ScpiParser.SplitUnits(line))
             {
@@ -59,11 +82,13 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
                     {
                         // An empty unit between semicolons is a syntax error; an empty line is not.
                         Push(ScpiErrors.SyntaxError, "an empty message unit");
+                        complete = false;
                     }
 
                     continue;
                 }
 
+                Step step;
                 try
                 {
                     var unit = ScpiParser.ParseUnit(text);
@@ -72,6 +97,7 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
                     if (found is null)
                     {
                         Push(ScpiErrors.UndefinedHeader, string.Join(':', unit.Mnemonics) + (unit.IsQuery ? "?" : string.Empty));
+                        complete = false;
                         break;
                     }
 
@@ -82,23 +108,39 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
                         path = mnemonics.Take(mnemonics.Count - 1).ToList();
                     }
 
-                    await handler(new ScpiCall(unit with { Mnemonics = mnemonics }, suffixes, response));
+                    step = new Step(handler, suffixes, unit with { Mnemonics = mnemonics });
                 }
                 catch (ScpiException ex)
                 {
                     Push(ex.Code, ex.Detail);
+                    complete = false;
                     if (ex.Code is <= -100 and > -200)
                     {
                         // After a command error the rest of the message is not executed: the parser cannot tell where it would resume.
                         break;
                     }
+
+                    continue;
                 }
                 catch (Exception ex) when (ex is ArithmeticException or ArgumentException or InvalidOperationException or KeyNotFoundException)
                 {
                     // A simulator bug must not take the session down: report it as a device-specific error and carry on.
                     Push(-300, ex.Message);
+                    complete = false;
                     break;
                 }
+
+                resolved.Add(step);
+                if (!await RunAsync(step, response))
+                {
+                    complete = false;
+                    break;
+                }
+            }
+
+            if (complete && _remembered.Count < MaxRemembered)
+            {
+                _remembered[line] = [.. resolved];
             }
 
             return queried && response.Length > 0 ? response.ToString() : null;
@@ -106,6 +148,29 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
         finally
         {
             _turn.Release();
+        }
+    }
+
+    /// <summary>Runs one matched unit; false when the rest of the message must not run (a command error or a simulator bug).</summary>
+    private async ValueTask<bool> RunAsync(Step step, StringBuilder response)
+    {
+        try
+        {
+            await step.Handler(new ScpiCall(step.Unit, step.Suffixes, response));
+            return true;
+        }
+        catch (ScpiException ex)
+        {
+            Push(ex.Code, ex.Detail);
+
+            // After a command error the rest of the message is not executed: the parser cannot tell where it would resume.
+            return ex.Code is not (<= -100 and > -200);
+        }
+        catch (Exception ex) when (ex is ArithmeticException or ArgumentException or InvalidOperationException or KeyNotFoundException)
+        {
+            // A simulator bug must not take the session down: report it as a device-specific error and carry on.
+            Push(-300, ex.Message);
+            return false;
         }
     }
 
@@ -270,4 +335,7 @@ internal sealed class ScpiInstrument : IInstrumentFront, IDisposable
             })
             .Add("SYSTem:VERSion?", c => c.Reply("1999.0"));
     }
+
+    /// <summary>One unit of a line matched to its handler: the parsed unit with the matched header's mnemonics, and its numeric suffixes.</summary>
+    private readonly record struct Step(Func<ScpiCall, ValueTask> Handler, int[] Suffixes, ScpiMessageUnit Unit);
 }

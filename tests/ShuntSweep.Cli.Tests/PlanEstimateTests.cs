@@ -25,12 +25,12 @@ public sealed partial class PlanEstimateTests
     {
         var sequence = Repo.File(file);
         var earlier = Some.TempDirectory();
-        await Cli.RunAsync("run", sequence, "--out", earlier, "--no-archive", "--seed", "1");
+        Assert.Equal(0, await Cli.RunAsync("run", sequence, "--out", earlier, "--no-archive", "--seed", "1"));
         var estimate = await EstimateAsync(sequence, "--timing-from", earlier);
 
         // Another seed: other noise, so other settling waits than the run the estimate learned from.
         var next = Some.TempDirectory();
-        await Cli.RunAsync("run", sequence, "--out", next, "--no-archive", "--seed", "2");
+        Assert.True(await Cli.RunAsync("run", sequence, "--out", next, "--no-archive", "--seed", "2") == 0, $"the run ended early: {RunEnd(next)}");
         AssertWithin(estimate, BenchTime(next), file);
     }
 
@@ -50,6 +50,10 @@ public sealed partial class PlanEstimateTests
         double At(string name) => events.Last(e => e.GetProperty("event").GetString() == name).GetProperty("elapsedS").GetDouble();
         return At("run-end") - At("run-start");
     }
+
+    /// <summary>How the run in <paramref name="runDirectory"/> ended, in its own words, for a failure message.</summary>
+    private static string RunEnd(string runDirectory) =>
+        File.ReadLines(Path.Combine(runDirectory, "events.jsonl")).LastOrDefault(l => l.Contains("\"run-end\"", StringComparison.Ordinal)) ?? "no run-end event";
 
     internal static void AssertWithin(double estimate, double measured, string file)
     {

@@ -229,6 +229,24 @@ public sealed class SessionFaultTests
     }
 
     [Fact]
+    public async Task OutputOff_ThatTheInstrumentLost_IsSentAgain_UntilTheStateReadsOff()
+    {
+        var fake = FakeInstrument.Supply();
+        var lost = 0;
+        // The first two off commands are lost on the way (the instrument was busy, or line noise ate them): no state change, no answer.
+        fake.Fault = c => c.StartsWith("OUTP OFF", StringComparison.Ordinal) && lost++ < 2 ? Reply.None : null;
+        await using var server = ScpiResponder.Start(fake);
+        await using var session = await DriverTests.OpenAsync(server, Fast(500));
+        var supply = new ScpiSupply(session, InstrumentProfile.Default, InstrumentResilience.Create(session.Resource, new ResilienceSettings(Retries: 0), TimeProvider.System));
+        await supply.SetOutputAsync(true, Ct);
+
+        await supply.SetOutputAsync(false, Ct);
+
+        Assert.Equal("OFF", fake.State["OUTP"]);
+        Assert.Equal(3, lost);
+    }
+
+    [Fact]
     public async Task BreakerOpens_AfterRepeatedFailures_ButOutputOffStillGetsThrough()
     {
         var fake = FakeInstrument.Supply();

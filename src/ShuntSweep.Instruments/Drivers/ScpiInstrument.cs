@@ -11,6 +11,9 @@ namespace ShuntSweep.Instruments.Drivers;
 /// </remarks>
 internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile profile, InstrumentResilience? resilience) : IInstrument
 {
+    /// <summary>How many times an off command is sent before an output that still reads on counts as not switched off.</summary>
+    private const int OffAttempts = 3;
+
     private readonly InstrumentResilience _resilience = resilience ?? InstrumentResilience.Direct(session.Resource);
     private readonly List<(string Key, IReadOnlyList<string> Commands)> _configuration = [];
     private int _generation = session.Generation;
@@ -104,29 +107,39 @@ internal abstract class ScpiInstrument(MessageSession session, InstrumentProfile
     }
 
     /// <summary>Switches an output off without first restoring configuration, and judges success by reading the state back, so that neither a failed restore nor an old error in the queue can stop it.</summary>
+    /// <remarks>An off command the instrument lost (it came while the instrument was still busy, or line noise ate it) is sent again, up to
+    /// <see cref="OffAttempts"/> times in all, before the output counts as still on.</remarks>
     private async Task SwitchOffAsync(IReadOnlyList<string> commands, string what, Func<CancellationToken, Task<bool>>? verify, CancellationToken cancellationToken)
     {
-        foreach (var c in commands)
+        for (var attempt = 1; ; attempt++)
         {
-            await Session.WriteUrgentAsync(c, cancellationToken);
-        }
-
-        var errors = await Session.DrainErrorsAsync(cancellationToken);
-        if (verify is null)
-        {
-            if (errors.Count > 0)
+            foreach (var c in commands)
             {
-                throw new InstrumentErrorException(Resource, $"{what} ({string.Join("; ", commands)})", errors);
+                await Session.WriteUrgentAsync(c, cancellationToken);
             }
 
-            return;
-        }
+            var errors = await Session.DrainErrorsAsync(cancellationToken);
+            if (verify is null)
+            {
+                if (errors.Count > 0)
+                {
+                    throw new InstrumentErrorException(Resource, $"{what} ({string.Join("; ", commands)})", errors);
+                }
 
-        if (!await verify(cancellationToken))
-        {
-            throw errors.Count > 0
-                ? new InstrumentErrorException(Resource, $"{what} ({string.Join("; ", commands)}): still on", errors)
-                : new InstrumentProtocolException(Resource, $"{what}: the instrument still reports the output on.");
+                return;
+            }
+
+            if (await verify(cancellationToken))
+            {
+                return;
+            }
+
+            if (attempt == OffAttempts)
+            {
+                throw errors.Count > 0
+                    ? new InstrumentErrorException(Resource, $"{what} ({string.Join("; ", commands)}): still on after {OffAttempts} attempts", errors)
+                    : new InstrumentProtocolException(Resource, $"{what}: the instrument still reports the output on after {OffAttempts} attempts.");
+            }
         }
     }
 

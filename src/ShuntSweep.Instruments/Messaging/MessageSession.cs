@@ -492,10 +492,12 @@ public sealed class MessageSession : IAsyncDisposable
         if (!Options.Pacing.IsNone)
         {
             // The instrument hears nothing while it is still busy with the previous command (its processing time, or the profile's gap).
-            var wait = _readyAt - _ioTime.GetTimestamp();
-            if (wait > 0)
+            // A timer may fire a few milliseconds early (whole milliseconds on a coarse tick), so the wait is checked against the clock
+            // and continued until the instrument is ready.
+            for (var wait = _readyAt - _ioTime.GetTimestamp(); wait > 0; wait = _readyAt - _ioTime.GetTimestamp())
             {
-                await Task.Delay(TimeSpan.FromSeconds((double)wait / _ioTime.TimestampFrequency), _ioTime, token);
+                var rest = TimeSpan.FromSeconds((double)wait / _ioTime.TimestampFrequency);
+                await Task.Delay(rest < TimeSpan.FromMilliseconds(1) ? TimeSpan.FromMilliseconds(1) : rest, _ioTime, token);
             }
         }
 

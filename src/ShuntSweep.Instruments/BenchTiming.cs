@@ -70,7 +70,8 @@ public sealed class BenchTiming
         Meter? MeterOf(InstrumentRole role) => Of(role) is { } m ? new Meter(m.Settings.Timing, 2 * Gap(m.Profile)) : null;
 
         // A UUT read over SCPI is armed and fetched like a meter but not set to an NPLC: one line cycle and its overhead.
-        TimeSpan? uut = Of(InstrumentRole.UutMeter) switch
+        var uutMeter = Of(InstrumentRole.UutMeter);
+        TimeSpan? uut = uutMeter switch
         {
             null => null,
             { Settings.TypedByOperator: true } => TimeSpan.Zero,
@@ -79,7 +80,6 @@ public sealed class BenchTiming
         };
         var supply = Of(InstrumentRole.Supply);
         var load = Of(InstrumentRole.Load);
-        var uutMeter = Of(InstrumentRole.UutMeter);
         TimeSpan Query((DriverSettings Settings, InstrumentProfile Profile)? i) => i is { } x ? x.Settings.Timing.OverheadTime + Gap(x.Profile) : TimeSpan.Zero;
 
         // A setting: the command and the processing its profile gives it, then the error check after it. The in-process simulator applies

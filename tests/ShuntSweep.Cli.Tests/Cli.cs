@@ -13,46 +13,40 @@ internal static class Cli
 
     /// <summary>Invokes the command line with <paramref name="args"/> and returns its exit code; an exception no command handled is thrown
     /// to the caller instead of being printed as a stack trace with exit code 1.</summary>
-    public static async Task<int> RunStrictAsync(params string[] args)
-    {
-        await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
-        try
-        {
-            return await ShuntSweepCommandLine.InvokeAsync(args, new System.CommandLine.InvocationConfiguration { EnableDefaultExceptionHandler = false }, TestContext.Current.CancellationToken);
-        }
-        finally
-        {
-            OneAtATime.Release();
-        }
-    }
+    public static Task<int> RunStrictAsync(params string[] args) =>
+        OneAtATimeAsync(() => ShuntSweepCommandLine.InvokeAsync(args, Strict(), TestContext.Current.CancellationToken));
 
     /// <summary>As <see cref="RunStrictAsync"/>, and returns what the command wrote to standard error.</summary>
-    public static async Task<(int Exit, string Err)> RunStrictCapturingErrorAsync(params string[] args)
-    {
-        await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
-        var original = Console.Error;
-        using var err = new StringWriter();
-        Console.SetError(err);
-        try
+    public static Task<(int Exit, string Err)> RunStrictCapturingErrorAsync(params string[] args) =>
+        OneAtATimeAsync(async () =>
         {
-            var exit = await ShuntSweepCommandLine.InvokeAsync(args, new System.CommandLine.InvocationConfiguration { EnableDefaultExceptionHandler = false }, TestContext.Current.CancellationToken);
-            return (exit, err.ToString());
-        }
-        finally
-        {
-            Console.SetError(original);
-            OneAtATime.Release();
-        }
-    }
+            var original = Console.Error;
+            using var err = new StringWriter();
+            Console.SetError(err);
+            try
+            {
+                return (await ShuntSweepCommandLine.InvokeAsync(args, Strict(), TestContext.Current.CancellationToken), err.ToString());
+            }
+            finally
+            {
+                Console.SetError(original);
+            }
+        });
 
     /// <summary>Invokes the command line with <paramref name="args"/> and returns its exit code.</summary>
     /// <remarks>Invocations are serialised: the console is process-wide.</remarks>
-    public static async Task<int> RunAsync(params string[] args)
+    public static Task<int> RunAsync(params string[] args) =>
+        OneAtATimeAsync(() => ShuntSweepCommandLine.InvokeAsync(args, cancellationToken: TestContext.Current.CancellationToken));
+
+    private static System.CommandLine.InvocationConfiguration Strict() => new() { EnableDefaultExceptionHandler = false };
+
+    /// <summary>Runs <paramref name="invoke"/> while no other in-process invocation runs: the console is process-wide.</summary>
+    private static async Task<T> OneAtATimeAsync<T>(Func<Task<T>> invoke)
     {
         await OneAtATime.WaitAsync(TestContext.Current.CancellationToken);
         try
         {
-            return await ShuntSweepCommandLine.InvokeAsync(args, cancellationToken: TestContext.Current.CancellationToken);
+            return await invoke();
         }
         finally
         {

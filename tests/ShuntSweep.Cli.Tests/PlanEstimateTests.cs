@@ -1,4 +1,3 @@
-using System.Diagnostics;
 using System.Globalization;
 using System.Text.Json;
 using System.Text.RegularExpressions;
@@ -87,12 +86,7 @@ public sealed partial class ServedPlanEstimateTests
         var dir = Some.TempDirectory();
         var benchFile = Path.Combine(dir, "served.yaml");
         using var serve = ToolProcess.Start("sim", "serve", Path.GetFullPath(Path.Combine(Path.GetDirectoryName(sequence)!, simulator)), "--port", "0", "--write-bench", benchFile);
-        var waited = Stopwatch.StartNew();
-        while (!serve.Output.Contains("Ctrl-C", StringComparison.Ordinal))
-        {
-            Assert.True(waited.Elapsed < TimeSpan.FromSeconds(60), $"sim serve did not start in time. Output:\n{serve.Output}");
-            await Task.Delay(20, TestContext.Current.CancellationToken);
-        }
+        await serve.WaitUntilAsync(() => serve.Output.Contains("Ctrl-C", StringComparison.Ordinal), "sim serve listening", TimeSpan.FromSeconds(60));
 
         var estimate = await PlanEstimateTests.EstimateAsync(sequence, "--bench", benchFile);
         var answers = Some.TempFile("otherwise: done\n");

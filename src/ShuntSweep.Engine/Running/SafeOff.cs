@@ -39,7 +39,8 @@ public static class SafeOff
         // Switching off is idempotent: an attempt that did not confirm (a command the instrument missed, an error on the way) is made again until the deadline.
         using var deadline = new CancellationTokenSource(Deadline, time);
         var started = time.GetTimestamp();
-        var problem = $"no confirmation within {QuantityFormatter.Format(Deadline.TotalSeconds, SiUnit.Second)} (it does not answer)";
+        var silent = $"no confirmation within {QuantityFormatter.Format(Deadline.TotalSeconds, SiUnit.Second)} (it does not answer)";
+        var problem = silent;
         while (true)
         {
             var left = Deadline - time.GetElapsedTime(started);
@@ -60,7 +61,7 @@ public static class SafeOff
             }
             catch (Exception ex) when (ex is OperationCanceledException or TimeoutException)
             {
-                return new OffCheck(role, resource, false, $"no confirmation within {QuantityFormatter.Format(Deadline.TotalSeconds, SiUnit.Second)} (it does not answer)");
+                return new OffCheck(role, resource, false, silent);
             }
             catch (Exception ex) when (ex is not OutOfMemoryException)
             {

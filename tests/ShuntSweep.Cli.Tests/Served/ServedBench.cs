@@ -201,6 +201,17 @@ internal sealed class ToolProcess : IDisposable
         return _process.ExitCode;
     }
 
+    /// <summary>Waits until <paramref name="condition"/> holds, polling every 20 ms; fails naming <paramref name="what"/> and showing the output after <paramref name="limit"/>.</summary>
+    public async Task WaitUntilAsync(Func<bool> condition, string what, TimeSpan limit)
+    {
+        var waited = Stopwatch.StartNew();
+        while (!condition())
+        {
+            Assert.True(waited.Elapsed < limit, $"not in time: {what}. Output:\n{Output}");
+            await Task.Delay(20, TestContext.Current.CancellationToken);
+        }
+    }
+
     /// <summary>Sends a POSIX signal (INT for Ctrl-C, TERM) to the process.</summary>
     public void Signal(string name)
     {

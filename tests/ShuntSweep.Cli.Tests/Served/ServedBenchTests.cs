@@ -39,44 +39,30 @@ public sealed partial class ServedBenchTests
     private static ToolProcess Run(ServedBench bench, (string Sequence, string Answers, string Out) files, params string[] more) =>
         ToolProcess.Start(["run", files.Sequence, "--bench", bench.BenchFile, "--out", files.Out, "--answers", files.Answers, "--yes", .. more]);
 
-    private static int StepsDone(string runDirectory)
-    {
-        try
-        {
-            using var stream = new FileStream(Path.Combine(runDirectory, "events.jsonl"), FileMode.Open, FileAccess.Read, FileShare.ReadWrite);
-            using var reader = new StreamReader(stream);
-            return reader.ReadToEnd().Split('\n').Count(l => l.Contains("\"step-done\"", StringComparison.Ordinal));
-        }
-        catch (IOException)
-        {
-            return 0;
-        }
-    }
+    private static int StepsDone(string runDirectory) =>
+        ReadWhileWritten(Path.Combine(runDirectory, "events.jsonl")).Split('\n').Count(l => l.Contains("\"step-done\"", StringComparison.Ordinal));
 
     /// <summary>Data rows of the run's journal so far (its header left out).</summary>
-    private static int SamplesJournaled(string runDirectory)
+    private static int SamplesJournaled(string runDirectory) =>
+        Math.Max(0, ReadWhileWritten(Path.Combine(runDirectory, "journal.csv")).Split('\n').Count(l => l.Length > 0) - 1);
+
+    /// <summary>What a file the running tool is still writing holds so far; empty while it does not exist yet.</summary>
+    private static string ReadWhileWritten(string path)
     {
         try
         {
-            using var stream = new FileStream(Path.Combine(runDirectory, "journal.csv"), FileMode.Open, FileAccess.Read, FileShare.ReadWrite);
+            using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite);
             using var reader = new StreamReader(stream);
-            return Math.Max(0, reader.ReadToEnd().Split('\n').Count(l => l.Length > 0) - 1);
+            return reader.ReadToEnd();
         }
         catch (IOException)
         {
-            return 0;
+            return string.Empty;
         }
     }
 
-    private static async Task WaitForStepsAsync(string runDirectory, int steps, ToolProcess process)
-    {
-        var waited = Stopwatch.StartNew();
-        while (StepsDone(runDirectory) < steps)
-        {
-            Assert.True(waited.Elapsed < Limit, $"no {steps} steps done in time. Output:\n{process.Output}");
-            await Task.Delay(20, TestContext.Current.CancellationToken);
-        }
-    }
+    private static Task WaitForStepsAsync(string runDirectory, int steps, ToolProcess process) =>
+        process.WaitUntilAsync(() => StepsDone(runDirectory) >= steps, $"{steps} steps done", Limit);
 
     private static string Events(string runDirectory) => File.ReadAllText(Path.Combine(runDirectory, "events.jsonl"));
 
@@ -143,12 +129,7 @@ public sealed partial class ServedBenchTests
         await using var bench = await ServedBench.StartAsync(Tw18());
         var files = await FilesAsync(bench, slow);
         using var run = Run(bench, files);
-        var waited = Stopwatch.StartNew();
-        while (SamplesJournaled(files.Out) < 1)
-        {
-            Assert.True(waited.Elapsed < Limit, $"no sample journaled in time. Output:\n{run.Output}");
-            await Task.Delay(20, TestContext.Current.CancellationToken);
-        }
+        await run.WaitUntilAsync(() => SamplesJournaled(files.Out) >= 1, "a sample journaled", Limit);
 
         run.Signal("INT");
         Assert.Equal(130, await run.WaitAsync(Limit));
@@ -168,12 +149,7 @@ public sealed partial class ServedBenchTests
     {
         var simulated = Some.TempFile(Tw18());
         using var serve = ToolProcess.Start("sim", "serve", simulated, "--host", "0.0.0.0", "--allow-remote", "--port", "0");
-        var waited = Stopwatch.StartNew();
-        while (!serve.Output.Contains("Ctrl-C", StringComparison.Ordinal))
-        {
-            Assert.True(waited.Elapsed < Limit, $"sim serve did not start in time. Output:\n{serve.Output}");
-            await Task.Delay(20, TestContext.Current.CancellationToken);
-        }
+        await serve.WaitUntilAsync(() => serve.Output.Contains("Ctrl-C", StringComparison.Ordinal), "sim serve listening", Limit);
 
         var output = serve.Output;
         Assert.Contains("anyone who can reach these ports over the network can drive this simulated bench", output, StringComparison.Ordinal);

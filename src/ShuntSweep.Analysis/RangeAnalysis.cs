@@ -155,7 +155,8 @@ internal sealed class RangeAnalysis
         inputs.Select((q, i) => i > 1 && q.StandardUncertainty == 0 ? q with { Name = q.Name + " (not stated in the bench file)" } : q).ToList();
 
     /// <summary>√Σᵢ (∂R/∂yᵢ)² and √Σᵢ (∂V₀/∂yᵢ)²: how much a unit independent error on every point's drop moves the resistance and the
-    /// offset through the chosen (linearised) fit, solved by QR one point at a time.</summary>
+    /// offset through the chosen (linearised) fit. With the weighted design X and C = (XᵀWX)⁻¹ taken from its QR factor, ∂p/∂yᵢ = C·xᵢ·wᵢ,
+    /// so each sum is one pass over the points.</summary>
     private static (double Resistance, double Offset) ResolutionSensitivity(CandidateFit chosen, DropData data)
     {
         var n = data.Current.Length;
@@ -171,27 +172,38 @@ internal sealed class RangeAnalysis
             }
         }
 
-        var qr = new HouseholderQr(a, n, m);
+        var qr = new HouseholderQr((double[])a.Clone(), n, m);
         if (qr.IsRankDeficient())
         {
             return (0, 0);
         }
 
+        var c = qr.InverseRtR();
         var gradient = Propagation.Gradient(p => chosen.Model.SmallSignalResistance(p), chosen.Parameters, chosen.Covariance);
+        var zr = new double[m];
+        for (var j = 0; j < m; j++)
+        {
+            for (var k = 0; k < m; k++)
+            {
+                zr[j] += c[j, k] * gradient[k];
+            }
+        }
+
         double sr = 0, so = 0;
         for (var i = 0; i < n; i++)
         {
-            var b = new double[n];
-            b[i] = Math.Sqrt(data.Weight[i]);
-            var dp = qr.Solve(b);
-            var dr = 0.0;
+            // a holds √wᵢ·xᵢ, so √wᵢ·(zᵀ·aᵢ) = wᵢ·zᵀ·xᵢ.
+            double dr = 0, d0 = 0;
             for (var j = 0; j < m; j++)
             {
-                dr += gradient[j] * dp[j];
+                var aij = a[(j * n) + i];
+                dr += zr[j] * aij;
+                d0 += c[0, j] * aij;
             }
 
-            sr += dr * dr;
-            so += dp[0] * dp[0];
+            var sw = Math.Sqrt(data.Weight[i]);
+            sr += dr * dr * sw * sw;
+            so += d0 * d0 * sw * sw;
         }
 
         return (Math.Sqrt(sr), Math.Sqrt(so));

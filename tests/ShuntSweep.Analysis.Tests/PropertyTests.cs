@@ -22,6 +22,22 @@ public sealed class PropertyTests
     }
 
     [Fact]
+    public void MonteCarloQuantile_BySelection_EqualsTheSortedInterpolation()
+    {
+        // The interpolated order statistic of JCGM 101 7.7, computed from a full sort, is the reference for the selection the check uses.
+        Gen.Select(Gen.Double[-1e6, 1e6].Array[1, 400], Gen.Double[0, 1], (values, q) => (values, q))
+            .Sample((values, q) =>
+            {
+                var sorted = values.Order().ToArray();
+                var pos = q * (sorted.Length - 1);
+                var lo = (int)Math.Floor(pos);
+                var hi = Math.Min(lo + 1, sorted.Length - 1);
+                var expected = sorted[lo] + ((pos - lo) * (sorted[hi] - sorted[lo]));
+                Assert.Equal(expected, MonteCarloCheck.Quantile((double[])values.Clone(), q), 1e-9 * (1 + Math.Abs(expected)));
+            });
+    }
+
+    [Fact]
     public void LinearFit_RecoversAnExactLine()
     {
         Gen.Select(Gen.Double[-10, 10], Gen.Double[-1e3, 1e3], Gen.Double[1e-6, 1e3], (b0, b1, span) => (b0, b1, span))

@@ -68,7 +68,36 @@ internal sealed class HeatedElementModel : IDropModel
         var imax2 = data.MaxAbsCurrent * data.MaxAbsCurrent;
         var heated = a5 > 0 ? Math.Clamp(a3 * a3 / a5, 1e-3 * r0, r0) : 0.5 * r0;
         var beta = Math.Clamp(a3 / heated, 0, 0.5 / imax2);
-        return [v0, r0, heated, beta];
+        double[] split = [v0, r0, heated, beta];
+
+        // When the data do not separate R_h from β (little heating), the split above is noise and the optimum often lies at the edge where
+        // everything heats (R_h = R₀, the self-heating model); starting from the better of the two saves a long crawl along the R_h·β valley.
+        var cubic = LinearLeastSquares.Fit(data.Current, data.Drop, data.Weight, 3, static (x, row) =>
+        {
+            row[0] = 1;
+            row[1] = x;
+            row[2] = x * x * x;
+        });
+        var (cv0, cr0, ca3) = (cubic.Parameters[0], cubic.Parameters[1], cubic.Parameters[2]);
+        if (!(cr0 > 0) || !(ca3 > 0))
+        {
+            return split;
+        }
+
+        double[] whole = [cv0, cr0, cr0, Math.Clamp(ca3 / cr0, 0, 0.5 / imax2)];
+        return ChiSquare(data, whole) < ChiSquare(data, split) ? whole : split;
+    }
+
+    private double ChiSquare(DropData data, double[] p)
+    {
+        var chi2 = 0.0;
+        for (var i = 0; i < data.Current.Length; i++)
+        {
+            var r = data.Drop[i] - Evaluate(data.Current[i], p, []);
+            chi2 += data.Weight[i] * r * r;
+        }
+
+        return double.IsFinite(chi2) ? chi2 : double.PositiveInfinity;
     }
 
     public bool IsValid(ReadOnlySpan<double> p, double maxAbsCurrent) =>

@@ -103,7 +103,8 @@ public sealed class GumTests
         static double F(double[] x) => x[0] + (2 * x[1]) - x[2];
         var gum = GumBudget.Evaluate(F, inputs);
 
-        var mc = MonteCarloCheck.Run(F, inputs, gum, 200_000, 42);
+        // The Monte Carlo 97.5 % point has a standard error of about u·√(p(1 − p))/(√M·φ(1.96)) ≈ 0.0019 at M = 2·10⁶, well inside δ = 0.005.
+        var mc = MonteCarloCheck.Run(F, inputs, gum, 2_000_000, 42);
 
         Assert.True(mc.AgreesWithGum, $"GUM {gum.Value} ± {gum.ExpandedUncertainty}; MC [{mc.Low}, {mc.High}], δ = {mc.Tolerance}");
         Assert.Equal(gum.CombinedStandardUncertainty, mc.StandardUncertainty, 0.01);
@@ -121,5 +122,24 @@ public sealed class GumTests
 
         Assert.Equal(1 / Math.Sqrt(3), mc.StandardUncertainty, 2);
         Assert.InRange(mc.High, 0.94, 0.96); // 97.5 % point of U(−1, 1) is 0.95.
+    }
+
+    [Theory]
+    [InlineData(4.0)]
+    [InlineData(9.0)]
+    [InlineData(6.5)]
+    public void MonteCarlo_StudentTInput_HasTheScaledTDistribution(double nu)
+    {
+        // JCGM 101:2008 6.4.9: a Type A mean with ν degrees of freedom is drawn as x̄ + u·t_ν; the t distribution's variance is ν/(ν − 2)
+        // and its 97.5 % point is checked against MathNet.Numerics' StudentT inverse CDF (a reference library).
+        InputQuantity[] inputs = [new("a", 3, 0.2, nu, InputDistribution.StudentT)];
+        var gum = GumBudget.Evaluate(x => x[0], inputs);
+
+        var mc = MonteCarloCheck.Run(x => x[0], inputs, gum, 400_000, 11);
+
+        Assert.Equal(0.2 * Math.Sqrt(nu / (nu - 2)), mc.StandardUncertainty, 0.2 * 0.01 * Math.Sqrt(nu / (nu - 2)) * 2);
+        var t975 = MathNet.Numerics.Distributions.StudentT.InvCDF(0, 1, nu, 0.975);
+        Assert.Equal(3 + (0.2 * t975), mc.High, 0.2 * t975 * 0.01);
+        Assert.Equal(3 - (0.2 * t975), mc.Low, 0.2 * t975 * 0.01);
     }
 }

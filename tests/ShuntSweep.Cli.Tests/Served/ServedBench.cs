@@ -169,7 +169,10 @@ internal sealed class ToolProcess : IDisposable
     }
 
     /// <summary>Starts <c>shuntsweep</c> with <paramref name="args"/>, its standard input a pipe (no terminal), archiving into a database of the test's own.</summary>
-    public static ToolProcess Start(params string[] args)
+    public static ToolProcess Start(params string[] args) => Start(new Dictionary<string, string>(), args);
+
+    /// <summary>Starts <c>shuntsweep</c> as <see cref="Start(string[])"/> does, with <paramref name="environment"/> added to its environment.</summary>
+    public static ToolProcess Start(IReadOnlyDictionary<string, string> environment, params string[] args)
     {
         var start = new ProcessStartInfo("dotnet", [ServedBench.Tool, .. args])
         {
@@ -179,6 +182,11 @@ internal sealed class ToolProcess : IDisposable
         };
         start.Environment["SHUNTSWEEP_ARCHIVE"] = Path.Combine(Some.TempDirectory(), "archive.db");
         start.Environment["COLUMNS"] = "200";
+        foreach (var (name, value) in environment)
+        {
+            start.Environment[name] = value;
+        }
+
         return new ToolProcess(Process.Start(start)!);
     }
 

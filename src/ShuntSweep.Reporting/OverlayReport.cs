@@ -1,4 +1,4 @@
-using System.Reflection;
+using ShuntSweep.Core.Records;
 using ShuntSweep.Reporting.Comparison;
 using ShuntSweep.Reporting.Html;
 using ShuntSweep.Reporting.Plots;
@@ -26,7 +26,7 @@ public static class OverlayReport
             File.WriteAllText(System.IO.Path.Combine(plotDir, p.Name + ".svg"), p.Svg);
         }
 
-        var software = "shuntsweep " + (typeof(OverlayReport).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion.Split('+')[0] ?? "?");
+        var software = SoftwareIdentity.Describe;
         var path = System.IO.Path.GetFullPath(System.IO.Path.Combine(folder, FileName));
         File.WriteAllText(path, OverlayHtml.Build(entries, differences, plots, (time ?? TimeProvider.System).GetUtcNow(), software));
         return (path, differences);

@@ -1,4 +1,4 @@
-using System.Reflection;
+using ShuntSweep.Core.Records;
 using ShuntSweep.Reporting.Html;
 using ShuntSweep.Reporting.Plots;
 
@@ -38,13 +38,10 @@ public static class RunReport
         }
 
         Export.ResultCsv.Write(run.Result, Path.Combine(run.Directory, ExportFolder));
-        var html = ReportHtml.Build(run, plots, (time ?? TimeProvider.System).GetUtcNow(), Software, showPaths);
+        var html = ReportHtml.Build(run, plots, (time ?? TimeProvider.System).GetUtcNow(), SoftwareIdentity.Describe, showPaths);
         var path = Path.Combine(run.Directory, FileName);
         File.WriteAllText(path + ".tmp", html);
         File.Move(path + ".tmp", path, overwrite: true);
         return path;
     }
-
-    private static string Software =>
-        "shuntsweep " + (typeof(RunReport).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion.Split('+')[0] ?? "?");
 }

@@ -196,7 +196,7 @@ internal static class RunCommand
         if (previous is null)
         {
             new RunManifest(
-                $"shuntsweep {typeof(RunCommand).Assembly.GetName().Version}",
+                SoftwareIdentity.Describe,
                 sequencePath,
                 RunManifest.HashFile(sequencePath),
                 benchPath ?? BenchHost.DefaultBench,

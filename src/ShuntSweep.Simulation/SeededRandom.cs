@@ -21,6 +21,14 @@ internal sealed class SeededRandom(ulong seed)
         }
     }
 
+    /// <summary>A generator for one named stream of a simulated unit's parts, fixed by its serial number: one serial is one physical
+    /// unit whatever the run's seed, which draws only its noise and faults.</summary>
+    public static SeededRandom ForUnit(string serial, string stream)
+    {
+        ArgumentNullException.ThrowIfNull(serial);
+        return For(0, "unit:" + serial + "/" + stream);
+    }
+
     /// <summary>The next 64 random bits.</summary>
     public ulong NextUInt64()
     {

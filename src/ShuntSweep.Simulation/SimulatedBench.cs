@@ -31,13 +31,13 @@ public sealed class SimulatedBench : IAsyncDisposable
     /// <summary>The simulated instruments' names, in port order (a subset of supply, load, dmm, uut, ref, tap).</summary>
     public IReadOnlyList<string> Instruments => SimulationReader.Served.Where(_instruments.ContainsKey).ToList();
 
-    /// <summary>Builds the simulation of <paramref name="bench"/> on <paramref name="clock"/>, drawing per-unit errors and noise from <paramref name="seed"/>.</summary>
+    /// <summary>Builds the simulation of <paramref name="bench"/> on <paramref name="clock"/>: its unit's parts follow from the UUT's serial, its noise and faults from <paramref name="seed"/>.</summary>
     /// <exception cref="Core.Documents.DocumentException">The simulation section is not valid.</exception>
     public static SimulatedBench Create(BenchDescription bench, IBenchClock clock, int seed)
     {
         ArgumentNullException.ThrowIfNull(bench);
         ArgumentNullException.ThrowIfNull(clock);
-        var settings = SimulationReader.Read(bench, seed);
+        var settings = SimulationReader.Read(bench);
         var circuit = new BenchCircuit(settings.Uut, bench.Wiring.Ohms, settings.Dmm, settings.Reference, settings.Supply, settings.Load, clock.Now);
         circuit.SupplyLimit = Math.Min(0.1, settings.Supply.MaxCurrent);
         foreach (var fault in settings.Faults)

@@ -21,14 +21,14 @@ internal sealed record SimulationSettings(
 
 /// <summary>Reads the bench file's <c>simulation</c> section strictly (every mapping is finished, so a misspelt key is an error with its position).</summary>
 /// <remarks>Anything the section leaves out gets a plausible default derived from the UUT's specification; per-unit errors and
-/// tolerances are drawn from the seed, so the same seed builds the same unit.</remarks>
+/// tolerances are drawn from the UUT's serial number, so one serial is one unit whatever the seed (which draws the noise).</remarks>
 internal static class SimulationReader
 {
     /// <summary>The SIM:: names the simulator serves, in port order.</summary>
     public static readonly string[] Served = ["supply", "load", "dmm", "uut", "ref", "tap"];
 
-    /// <summary>Builds the simulation of <paramref name="bench"/> for <paramref name="seed"/>.</summary>
-    public static SimulationSettings Read(BenchDescription bench, int seed)
+    /// <summary>Builds the simulation of <paramref name="bench"/>; its unit's parts follow from the UUT's serial number.</summary>
+    public static SimulationSettings Read(BenchDescription bench)
     {
         ArgumentNullException.ThrowIfNull(bench);
         var map = bench.Simulation;
@@ -48,7 +48,7 @@ internal static class SimulationReader
 
         var ambient = map?.QuantityOr("ambient", SiUnit.Celsius, 23, Allowed.Temperature) ?? 23;
         var line = map?.QuantityOr("lineFrequency", SiUnit.Hertz, 50, LineFrequency) ?? 50;
-        var uut = ReadUut(bench.Uut, map?.Mapping("uut"), ambient, seed);
+        var uut = ReadUut(bench.Uut, map?.Mapping("uut"), ambient);
 
         var s = map?.Mapping("supply");
         var supply = new SupplyPhysics(
@@ -154,7 +154,7 @@ internal static class SimulationReader
             : throw n.Error($"{n.What}: expected four comma-separated fields 'maker,model,serial,firmware', found '{text}'.");
     }
 
-    private static UutModel ReadUut(UutDescription description, MappingReader? map, double ambient, int seed)
+    private static UutModel ReadUut(UutDescription description, MappingReader? map, double ambient)
     {
         var jacksMap = map?.Mapping("jacks");
         Known(jacksMap, description.Jacks.Select(j => j.Name), "jack");
@@ -163,7 +163,7 @@ internal static class SimulationReader
         foreach (var spec in description.Jacks)
         {
             var jm = jacksMap?.Mapping(spec.Name);
-            var random = SeededRandom.For(seed, "fuse:" + spec.Name);
+            var random = SeededRandom.ForUnit(description.Serial, "fuse:" + spec.Name);
             var fm = jm?.Mapping("fuse");
             var rating = spec.FuseRating.Amperes;
             var r0 = (fm?.QuantityOr("coldResistance", SiUnit.Ohm, 0.1 / rating, Allowed.Positive(SiUnit.Ohm)) ?? (0.1 / rating)) * (1 + ((fm?.QuantityOr("tolerance", SiUnit.None, 0, Tolerance) ?? 0) * random.NextSigned()));
@@ -205,7 +205,7 @@ internal static class SimulationReader
         foreach (var spec in description.Ranges)
         {
             var rm = rangesMap?.Mapping(spec.Name);
-            var random = SeededRandom.For(seed, "range:" + spec.Name);
+            var random = SeededRandom.ForUnit(description.Serial, "range:" + spec.Name);
             var jack = jacks.First(j => j.Spec.Name == spec.Jack);
             var frontEnd = FrontEnd(spec, rm, rings[spec.Jack], random);
             ClampDiodes? diodes = null;

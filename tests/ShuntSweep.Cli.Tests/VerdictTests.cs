@@ -113,11 +113,29 @@ public sealed class VerdictTests
     }
 
     [Fact]
+    public async Task TwoSimulatedRunsOfOneSerial_WithDifferentSeeds_ShowNoDriftInHistory()
+    {
+        // One serial is one simulated unit: a second run with another seed differs only by its noise, far inside 0.1 %.
+        var archive = Path.Combine(Some.TempDirectory(), "archive.db");
+        foreach (var seed in new[] { "1", "2" })
+        {
+            Assert.Equal(0, await Cli.RunAsync("run", Repo.File("sequences/ci-smoke.yaml"), "--out", Some.TempDirectory(), "--seed", seed, "--archive", archive));
+        }
+
+        var (exit, history, _) = await Cli.RunProcessAsync(new Dictionary<string, string?>(), "history", "TW18-240417", "--archive", archive, "--drift-limit", "0.1 %");
+        Assert.True(exit == 0, history);
+    }
+
+    [Fact]
     public async Task UnsettledPoint_IsFlagged_InResultScreenAndReport_AndSaidToBeUsedInTheFit()
     {
-        // The inspection's 10A sweep waits at most 20 s for the heating fuse; its first 8 A point does not settle in that time.
+        // The inspection's 10A sweep, allowed only 2 s (instead of 20 s) for the heating fuse: its 8 A point cannot settle in that time.
         var dir = Some.TempDirectory();
-        var (exit, _, cautions) = await Cli.RunProcessAsync(new Dictionary<string, string?>(), "run", Repo.File("sequences/incoming-inspection-tw18.yaml"), "--out", dir, "--no-archive");
+        var text = File.ReadAllText(Repo.File("sequences/incoming-inspection-tw18.yaml"));
+        Assert.Contains("maxWait: 20 s", text, StringComparison.Ordinal);
+        var sequence = Some.TempFile(text.Replace("maxWait: 20 s", "maxWait: 2 s", StringComparison.Ordinal), ".yaml");
+        var (exit, _, cautions) = await Cli.RunProcessAsync(
+            new Dictionary<string, string?>(), "run", sequence, "--bench", Repo.File("simulators/handheld-tarnwell-tw18.yaml"), "--out", dir, "--no-archive");
         Assert.Equal(0, exit);
         var events = File.ReadAllLines(Path.Combine(dir, "events.jsonl")).Where(l => l.Contains("\"not-settled\"", StringComparison.Ordinal)).ToList();
         Assert.NotEmpty(events);

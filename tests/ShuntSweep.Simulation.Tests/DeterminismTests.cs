@@ -19,6 +19,39 @@ public sealed class DeterminismTests
     }
 
     [Fact]
+    public void OneSerial_IsOneUnitWhateverTheSeed_AnotherSerialIsAnotherUnit()
+    {
+        // A serial number names one physical unit: its parts (shunt and fuse within tolerance, gain and offset errors) must not change
+        // with the run's seed, or history would report drift of a unit that never changed.
+        var bench = BenchReader.Load(Benches.Handheld);
+        static string Parts(BenchDescription b) => string.Join(
+            ";",
+            SimulationReader.Read(b).Uut.Ranges.Select(r => FormattableString.Invariant($"{r.Spec.Name}:{r.FrontEnd.CurrentAt(0.01):R}:{r.GainError:R}:{r.Offset:R}")));
+
+        var unit = Parts(bench);
+        var other = Parts(bench with { Uut = bench.Uut with { Serial = bench.Uut.Serial + "-B" } });
+
+        Assert.Equal(unit, Parts(BenchReader.Load(Benches.Handheld)));
+        Assert.NotEqual(unit, other);
+    }
+
+    [Fact]
+    public async Task TwoSeedsOfOneSerial_HaveTheSameFuses()
+    {
+        // The fuses' cold resistances are drawn within their 5 % tolerance from the serial; the seeds differ, the fuses do not.
+        var (a, _) = Benches.Create(Benches.Handheld, seed: 3);
+        var (b, _) = Benches.Create(Benches.Handheld, seed: 4);
+        await using (a)
+        await using (b)
+        {
+            foreach (var jack in new[] { "mA", "10A" })
+            {
+                Assert.Equal(a.FuseColdResistance(jack), b.FuseColdResistance(jack));
+            }
+        }
+    }
+
+    [Fact]
     public async Task TwoInstrumentsOverTcp_AnswerConcurrently()
     {
         var clock = new VirtualBenchClock(new VirtualTimeProvider());

@@ -89,19 +89,23 @@ public sealed class InstrumentTests
     }
 
     [Fact]
-    public async Task PerUnitErrors_AreDrawnFromTheSeed()
+    public async Task PerUnitErrors_AreDrawnFromTheSerial()
     {
-        async Task<double> ReadingAsync(int seed)
+        // Six serials are six units: their gain and offset errors (and shunt within tolerance) differ, each within its accuracy.
+        var dir = Directory.CreateTempSubdirectory("shuntsweep-serials-").FullName;
+        async Task<double> ReadingAsync(int unit)
         {
-            await using var rig = Rig.Open(Benches.Handheld, seed);
+            var file = Path.Combine(dir, $"unit-{unit}.yaml");
+            await File.WriteAllTextAsync(file, (await File.ReadAllTextAsync(Benches.Handheld)).Replace("serial: TW18-240417", $"serial: TW18-24{unit:0000}", StringComparison.Ordinal));
+            await using var rig = Rig.Open(file, seed: 1);
             await rig.DriveAsync("6 mA", "0.005");
             return (await rig.Uut.NumbersAsync("READ?"))[0];
         }
 
         var readings = new List<double>();
-        for (var seed = 1; seed <= 6; seed++)
+        for (var unit = 1; unit <= 6; unit++)
         {
-            readings.Add(await ReadingAsync(seed));
+            readings.Add(await ReadingAsync(unit));
         }
 
         Assert.True(readings.Distinct().Count() > 2, "different units should read differently");

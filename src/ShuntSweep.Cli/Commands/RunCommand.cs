@@ -27,7 +27,7 @@ internal static class RunCommand
         var sequenceArg = new Argument<string?>("sequence") { Description = "The sequence file to run (not needed with --resume).", Arity = ArgumentArity.ZeroOrOne };
         var benchOpt = new Option<string?>("--bench") { Description = $"The bench file (default: the sequence's bench: key, else the bundled simulated bench {BenchHost.DefaultBench})." };
         var outOpt = new Option<string?>("--out") { Description = "The run directory (default: runs/<UTC timestamp>)." };
-        var seedOpt = new Option<int>("--seed") { Description = "The seed of the simulated bench.", DefaultValueFactory = _ => 1 };
+        var seedOpt = new Option<int>("--seed") { Description = "The seed of the simulated bench's noise and random faults (the unit's parts follow from its serial number).", DefaultValueFactory = _ => 1 };
         var answersOpt = new Option<string?>("--answers") { Description = "Answers to operator prompts for unattended runs (prompt id: done|abort, otherwise: done|abort)." };
         var resumeOpt = new Option<string?>("--resume") { Description = "Continue the interrupted run in this directory after its last completed step." };
         var archiveOpt = new Option<string?>("--archive") { Description = $"Where the run is archived: an SQLite file, or a PostgreSQL connection string (default: ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath})." };

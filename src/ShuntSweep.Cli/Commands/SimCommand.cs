@@ -36,7 +36,7 @@ internal static class SimCommand
         };
         var seed = new Option<int>("--seed")
         {
-            Description = "The seed of the per-unit errors and the noise; the same seed replays the same bench.",
+            Description = "The seed of the noise and random faults; the same seed replays the same bench (the unit's parts follow from its serial number).",
             DefaultValueFactory = _ => 1,
         };
         var allowRemote = new Option<bool>("--allow-remote")

@@ -13,8 +13,8 @@ public static class HistoryPlot
         ArgumentNullException.ThrowIfNull(history);
         ArgumentNullException.ThrowIfNull(limit);
         var plot = PlotStyle.Create($"UUT {history.Serial}: resistance change from the first archived run", "run start (UTC)", SiUnit.None, "change", SiUnit.None);
-        plot.Axes.DateTimeTicksBottom();
-        plot.Axes.Left.TickGenerator = new ScottPlot.TickGenerators.NumericAutomatic { LabelFormatter = v => v.ToString("0.###", System.Globalization.CultureInfo.InvariantCulture) + " %" };
+        PlotStyle.IsoDates(plot);
+        PlotStyle.Percent(plot.Axes.Left);
         for (var i = 0; i < history.Ranges.Count; i++)
         {
             var points = Drift.Assess(history.Ranges[i], limit).Where(p => double.IsFinite(p.ChangeFraction)).ToList();

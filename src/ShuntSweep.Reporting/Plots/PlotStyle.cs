@@ -53,5 +53,33 @@ internal static class PlotStyle
         };
     }
 
+    /// <summary>Labels an axis whose data are percentages through the formatter, as every other number the tool prints.</summary>
+    public static void Percent(IAxis axis)
+    {
+        ArgumentNullException.ThrowIfNull(axis);
+        axis.TickGenerator = new NumericAutomatic { LabelFormatter = v => Math.Abs(v) < 1e-12 ? "0 %" : QuantityFormatter.FormatPercent(v / 100, 6) };
+    }
+
+    /// <summary>Turns the bottom axis into a UTC date axis labelled in ISO 8601 (2026-12-04, or 2026-12-04 04:47 when the tick is not at midnight).</summary>
+    public static void IsoDates(Plot plot)
+    {
+        ArgumentNullException.ThrowIfNull(plot);
+        var axis = plot.Axes.DateTimeTicksBottom();
+        if (axis.TickGenerator is DateTimeAutomatic automatic)
+        {
+            automatic.LabelFormatter = Iso;
+        }
+    }
+
+    /// <summary>The ISO 8601 text of a tick's date, with as much of the time of day as it has (none, minutes, seconds, milliseconds).</summary>
+    public static string Iso(DateTime t)
+    {
+        var format = t.TimeOfDay == TimeSpan.Zero ? "yyyy-MM-dd"
+            : t.Second == 0 && t.Millisecond == 0 ? "yyyy-MM-dd HH:mm"
+            : t.Millisecond == 0 ? "yyyy-MM-dd HH:mm:ss"
+            : "yyyy-MM-dd HH:mm:ss.fff";
+        return t.ToString(format, System.Globalization.CultureInfo.InvariantCulture);
+    }
+
     private static string Tick(double v, SiUnit unit) => Math.Abs(v) < 1e-15 ? "0" : QuantityFormatter.Format(v, unit, 6);
 }

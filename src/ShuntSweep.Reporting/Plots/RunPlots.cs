@@ -189,7 +189,7 @@ internal static class RunPlots
     private static RenderedPlot Decomposition(IReadOnlyList<JackDecomposition> jacks)
     {
         var plot = PlotStyle.Create("Series resistance: common part of the jack and shunt of each range", string.Empty, SiUnit.None, "share of the range's series resistance", SiUnit.None);
-        plot.Axes.Left.TickGenerator = new ScottPlot.TickGenerators.NumericAutomatic { LabelFormatter = v => v.ToString("0", CultureInfo.InvariantCulture) + " %" };
+        PlotStyle.Percent(plot.Axes.Left);
         var bars = new List<Bar>();
         var positions = new List<double>();
         var labels = new List<string>();
@@ -244,7 +244,7 @@ internal static class RunPlots
     {
         var plot = PlotStyle.Create("Insertion error against source resistance (undisturbed current = full scale)", "source resistance", SiUnit.Ohm, "reading error", SiUnit.None);
         PlotStyle.Decades(plot.Axes.Bottom, SiUnit.Ohm);
-        plot.Axes.Left.TickGenerator = new ScottPlot.TickGenerators.NumericAutomatic { LabelFormatter = v => v.ToString("0.##", CultureInfo.InvariantCulture) + " %" };
+        PlotStyle.Percent(plot.Axes.Left);
         var drawn = 0;
         for (var i = 0; i < result.Ranges.Count; i++)
         {

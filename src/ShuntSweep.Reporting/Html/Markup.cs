@@ -28,8 +28,8 @@ internal static class Markup
     public static string Qu(double value, double uncertainty, SiUnit unit) => QuantityFormatter.Format(value, uncertainty, unit);
 
     /// <summary>A plain number in invariant form, or an em dash.</summary>
-    public static string N(double value, string format = "G4") =>
-        double.IsFinite(value) ? value.ToString(format, CultureInfo.InvariantCulture) : "—";
+    public static string N(double value, int significant = 4) =>
+        double.IsFinite(value) ? QuantityFormatter.Format(value, SiUnit.None, significant) : "—";
 
     /// <summary>A nullable plain number, an infinity sign when absent (degrees of freedom).</summary>
     public static string Dof(double? value) => value is { } v && double.IsFinite(v) ? v.ToString("0.#", CultureInfo.InvariantCulture) : "∞";

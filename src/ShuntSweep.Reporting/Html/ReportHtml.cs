@@ -112,7 +112,7 @@ internal static class ReportHtml
         var parts = new List<string>();
         if (r.Conformity is { } c)
         {
-            parts.Add($"accuracy: {Verdict(c.SimpleAcceptance)} (guard band: {Verdict(c.GuardBanded)}; TUR ≥ {N(c.MinimumTestUncertaintyRatio, "0.##")})");
+            parts.Add($"accuracy: {Verdict(c.SimpleAcceptance)} (guard band: {Verdict(c.GuardBanded)}; TUR ≥ {N(c.MinimumTestUncertaintyRatio, 3)})");
         }
 
         if (r.Burden is { } b)
@@ -156,8 +156,8 @@ internal static class ReportHtml
             ("Operator", Or(c?.Operator)),
             ("Procedure", m.ProcedureId is null ? "<span class=\"muted\">no id: sequence " + E(Path.GetFileName(m.SequenceFile)) + "</span>" : E($"{m.ProcedureId}{(m.ProcedureVersion is { } v ? $", version {v}" : string.Empty)}")),
             ("Condition of the UUT", Or(c?.Condition)),
-            ("Ambient temperature", c?.AmbientCelsius is { } t ? E($"{N(t, "0.0")} °C") + (m.Simulated ? " <span class=\"muted\">(simulated)</span>" : string.Empty) : Or(null)),
-            ("Relative humidity", c?.RelativeHumidityPercent is { } h ? E($"{N(h, "0")} %") : Or(null)),
+            ("Ambient temperature", c?.AmbientCelsius is { } t ? E($"{N(t, 3)} °C") + (m.Simulated ? " <span class=\"muted\">(simulated)</span>" : string.Empty) : Or(null)),
+            ("Relative humidity", c?.RelativeHumidityPercent is { } h ? E($"{N(h, 3)} %") : Or(null)),
             ("Measured", E(m.Start.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture))),
             ("Software", E(m.Software)),
         ]);
@@ -232,7 +232,7 @@ internal static class ReportHtml
                 uut.Ranges.Select(r => (IReadOnlyList<string>)
                 [
                     E(r.Name), E(r.Jack), E(r.FullScale.ToString()), E(r.Resolution.ToString()),
-                    E($"{N(r.Accuracy.FractionOfReading * 100, "0.###")} % + {r.Accuracy.Counts} counts"),
+                    E($"{N(r.Accuracy.FractionOfReading * 100, 4)} % + {r.Accuracy.Counts} counts"),
                     r.NominalShunt is { } ns ? E(ns.ToString()) : "—",
                     r.BurdenAtFullScale is { } b ? E(b.ToString()) : "—",
                 ]));
@@ -299,13 +299,13 @@ internal static class ReportHtml
                 E(Expanded(r.ResistanceOhms, SiUnit.Ohm, result.CoverageProbability)) + (r.ResistanceMethod.Length > 0 ? $"<br><span class=\"muted\">{E(r.ResistanceMethod)}</span>" : string.Empty),
                 E(Expanded(r.OffsetVolts, SiUnit.Volt, result.CoverageProbability)),
                 E(Q(r.BurdenAtFullScaleVolts, SiUnit.Volt)),
-                E(r.FullScaleA != 0 ? $"{N(r.BurdenAtFullScaleVolts / r.FullScaleA, "G4")} V/A" : "—"),
+                E(r.FullScaleA != 0 ? $"{N(r.BurdenAtFullScaleVolts / r.FullScaleA, 4)} V/A" : "—"),
                 E(Q(r.FittedUpToA, SiUnit.Ampere)) + (double.IsFinite(r.ReadingLimitA) ? $"<br><span class=\"muted\">reading overloads from {E(Q(r.ReadingLimitA, SiUnit.Ampere))}</span>" : string.Empty),
                 E($"{r.Points.Count} ({r.Points.Count(p => p.Outlier)})"),
                 RangeVerdict(result, r),
             ]));
-        html.Append("<p class=\"note\">Resistance is the small-signal slope of drop against current at zero current, averaged over the candidate models by their Akaike weights (its uncertainty covers the choice of model); the burden at full scale is what the chosen model predicts there. ")
-            .Append("Expanded uncertainties in this table are k = 2 times the standard uncertainties in result.json.</p>");
+        html.Append("<p class=\"note\">Resistance is the small-signal slope of drop against current at zero current: the chosen model's own, or an Akaike-weighted average where another surviving hypothesis is within 2 AICc units (the method is named under the value, and its uncertainty then covers the choice of model); the burden at full scale is what the chosen model predicts there. ")
+            .Append("Each ± U is the expanded uncertainty stored in result.json, with its coverage factor k from Student's t at the effective degrees of freedom.</p>");
         var outliers = result.Ranges.SelectMany(r => r.Points.Where(p => p.Outlier).Select(p => (r, p))).ToList();
         if (outliers.Count > 0)
         {
@@ -314,7 +314,7 @@ internal static class ReportHtml
                 outliers.Select(o => (IReadOnlyList<string>)
                 [
                     E(o.r.Name), E(o.p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(o.p.CurrentA, SiUnit.Ampere)), E(Q(o.p.DropVolts, SiUnit.Volt)),
-                    E(Q(o.p.ResidualVolts, SiUnit.Volt, 3)), E(N(o.p.StudentisedResidual, "0.##")),
+                    E(Q(o.p.ResidualVolts, SiUnit.Volt, 3)), E(N(o.p.StudentisedResidual, 3)),
                 ]));
         }
 
@@ -326,7 +326,7 @@ internal static class ReportHtml
                 unsettled.Select(o => (IReadOnlyList<string>)
                 [
                     E(o.r.Name), E(o.p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(o.p.CurrentA, SiUnit.Ampere)), E(Q(o.p.DropVolts, SiUnit.Volt)),
-                    E(Q(o.p.ResidualVolts, SiUnit.Volt, 3)), E(N(o.p.StudentisedResidual, "0.##")),
+                    E(Q(o.p.ResidualVolts, SiUnit.Volt, 3)), E(N(o.p.StudentisedResidual, 3)),
                 ]));
         }
 
@@ -334,12 +334,12 @@ internal static class ReportHtml
         {
             html.Append(CultureInfo.InvariantCulture, $"<h3>Fitted parameters of {E(r.Name)} ({E(r.Model)})</h3>");
             Table(html, "data", ["parameter", "value", "standard uncertainty", "unit", "meaning"],
-                r.Parameters!.Select(p => (IReadOnlyList<string>)[E(p.Name), E(N(p.Value, "G6")), E(N(p.StandardUncertainty, "G2")), E(p.Unit), E(p.Meaning)]));
+                r.Parameters!.Select(p => (IReadOnlyList<string>)[E(p.Name), E(N(p.Value, 6)), E(N(p.StandardUncertainty, 2)), E(p.Unit), E(p.Meaning)]));
             if (r.Correlation is { Count: > 1 } correlation && correlation.Count == r.Parameters!.Count)
             {
                 html.Append("<p class=\"note\">Correlation of the parameter estimates:</p>");
                 Table(html, "data", ["", .. r.Parameters!.Select(p => p.Name)],
-                    correlation.Select((row, i) => (IReadOnlyList<string>)[E(r.Parameters![i].Name), .. row.Select(c => E(N(c, "0.000")))]));
+                    correlation.Select((row, i) => (IReadOnlyList<string>)[E(r.Parameters![i].Name), .. row.Select(c => E(N(c, 3)))]));
             }
         }
 
@@ -365,8 +365,8 @@ internal static class ReportHtml
                     c.Model == mc.Chosen ? $"<strong>{E(c.Model)}</strong>" : E(c.Model),
                     E(c.ParameterCount.ToString(CultureInfo.InvariantCulture)),
                     c.Fitted ? "yes" : $"no <span class=\"muted\">{E(c.Reason)}</span>",
-                    E(N(c.ChiSquare)), E(Q(c.ResidualStdDevVolts, SiUnit.Volt, 3)), E(N(c.Aicc, "0.##")), E(N(c.Bic, "0.##")),
-                    E(c.NestedOver ?? "—"), E(N(c.FTestPValue, "G3")),
+                    E(N(c.ChiSquare, 5)), E(Q(c.ResidualStdDevVolts, SiUnit.Volt, 3)), E(N(c.Aicc, 5)), E(N(c.Bic, 5)),
+                    E(c.NestedOver ?? "—"), E(N(c.FTestPValue, 3)),
                 ]));
         }
 
@@ -396,15 +396,15 @@ internal static class ReportHtml
                     E(s.Hypothesis),
                     E($"{Qu(s.CommonSeriesOhms.Value, s.CommonSeriesOhms.StandardUncertainty, SiUnit.Ohm)}"),
                     string.Join("<br>", s.ShuntOhms.Select(kv => E($"{kv.Key}: {Qu(kv.Value.Value, kv.Value.StandardUncertainty, SiUnit.Ohm)}"))),
-                    E($"{N(s.ChiSquare, "0.###")} / {s.DegreesOfFreedom}"),
-                    E(s.DegreesOfFreedom > 0 ? N(s.PValue, "0.###") : "no check possible"),
+                    E($"{N(s.ChiSquare, 5)} / {s.DegreesOfFreedom}"),
+                    E(s.DegreesOfFreedom > 0 ? N(s.PValue, 4) : "no check possible"),
                     s.Consistent switch
                     {
                         true => "<span class=\"tag ok\">yes</span>",
                         false => "<span class=\"tag out\">no</span>",
                         null => "<span class=\"tag near\">unchecked</span>",
                     },
-                    s.Extra is { Count: > 0 } extra ? string.Join("<br>", extra.Select(kv => E($"{kv.Key}: {N(kv.Value.Value, "G5")} ± {N(kv.Value.StandardUncertainty, "G2")}"))) : "—",
+                    s.Extra is { Count: > 0 } extra ? string.Join("<br>", extra.Select(kv => E($"{kv.Key}: {N(kv.Value.Value, 5)} ± {N(kv.Value.StandardUncertainty, 2)}"))) : "—",
                 ]));
         }
 
@@ -458,7 +458,7 @@ internal static class ReportHtml
             return;
         }
 
-        html.Append(CultureInfo.InvariantCulture, $"<p class=\"note\">Reading error = UUT reading − reference current, evaluated by the law of propagation of uncertainty (JCGM 100:2008) with ν_eff from Welch–Satterthwaite and k from the t distribution at p = {E(N(result.CoverageProbability * 100, "0.##"))} %. Each range shows the budget of its least conforming point; every point follows.</p>");
+        html.Append(CultureInfo.InvariantCulture, $"<p class=\"note\">Reading error = UUT reading − reference current, evaluated by the law of propagation of uncertainty (JCGM 100:2008) with ν_eff from Welch–Satterthwaite and k from the t distribution at p = {E(N(result.CoverageProbability * 100, 3))} %. Each range shows the budget of its least conforming point; every point follows.</p>");
         foreach (var r in judged)
         {
             var points = r.ReadingError!;
@@ -468,7 +468,7 @@ internal static class ReportHtml
             Table(html, "data budget", ["input", "estimate", "standard uncertainty u(xᵢ)", "sensitivity cᵢ", "contribution |cᵢ|·u(xᵢ)", "νᵢ", "distribution"],
                 b.Lines.Select(l => (IReadOnlyList<string>)
                 [
-                    E(l.Name), E(N(l.Value, "G6")), E(Q(l.StandardUncertainty, SiUnit.Ampere, 3)), E(N(l.Sensitivity, "0.####")), E(Q(l.Contribution, SiUnit.Ampere, 3)), E(Dof(l.DegreesOfFreedom)),
+                    E(l.Name), E(N(l.Value, 6)), E(Q(l.StandardUncertainty, SiUnit.Ampere, 3)), E(N(l.Sensitivity, 4)), E(Q(l.Contribution, SiUnit.Ampere, 3)), E(Dof(l.DegreesOfFreedom)),
                     E(l.Distribution.ToString().ToLowerInvariant()),
                 ]));
             Facts(html,
@@ -476,8 +476,8 @@ internal static class ReportHtml
                 ("Error y", E(Q(b.Value, SiUnit.Ampere, 4))),
                 ("Combined standard uncertainty u_c(y)", E(Q(b.CombinedStandardUncertainty, SiUnit.Ampere, 3))),
                 ("Effective degrees of freedom ν_eff", E(Dof(b.EffectiveDegreesOfFreedom))),
-                ("Coverage factor k", E(N(b.CoverageFactor, "0.###"))),
-                ("Expanded uncertainty U", E($"{QuantityFormatter.FormatUncertainty(b.ExpandedUncertainty, SiUnit.Ampere)} (p = {N(b.CoverageProbability * 100, "0.##")} %)")),
+                ("Coverage factor k", E(N(b.CoverageFactor, 4))),
+                ("Expanded uncertainty U", E($"{QuantityFormatter.FormatUncertainty(b.ExpandedUncertainty, SiUnit.Ampere)} (p = {N(b.CoverageProbability * 100, 3)} %)")),
                 ("Monte Carlo cross-check (JCGM 101)", worst.MonteCarlo is { } mc
                     ? E($"{mc.Trials} trials: u = {Q(mc.StandardUncertainty, SiUnit.Ampere, 3)}, interval [{Q(mc.Low, SiUnit.Ampere, 3)}, {Q(mc.High, SiUnit.Ampere, 3)}]; ") + (mc.AgreesWithGum ? "<span class=\"tag ok\">agrees with the GUM budget</span>" : "<span class=\"tag near\">differs from the GUM budget: the decision uses the Monte Carlo interval</span>")
                     : "not run"),
@@ -487,8 +487,8 @@ internal static class ReportHtml
                 points.Select(p => (IReadOnlyList<string>)
                 [
                     E(p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(p.ReferenceA, SiUnit.Ampere, 5)), E(Q(p.ReadingA, SiUnit.Ampere, 5)), E(Q(p.ErrorA, SiUnit.Ampere, 3)),
-                    E(QuantityFormatter.FormatUncertainty(p.Statement.ExpandedUncertainty, SiUnit.Ampere) + (p.DecidedOn == "monte-carlo" ? " (Monte Carlo)" : string.Empty)), E(Q(p.Statement.ToleranceLimit, SiUnit.Ampere, 3)), E(N(p.Statement.TestUncertaintyRatio, "0.##")),
-                    E(N(p.Statement.ProbabilityOfConformance, "0.###")), VerdictTag(p.Statement.SimpleAcceptance), VerdictTag(p.Statement.GuardBanded),
+                    E(QuantityFormatter.FormatUncertainty(p.Statement.ExpandedUncertainty, SiUnit.Ampere) + (p.DecidedOn == "monte-carlo" ? " (Monte Carlo)" : string.Empty)), E(Q(p.Statement.ToleranceLimit, SiUnit.Ampere, 3)), E(N(p.Statement.TestUncertaintyRatio, 3)),
+                    E(N(p.Statement.ProbabilityOfConformance, 4)), VerdictTag(p.Statement.SimpleAcceptance), VerdictTag(p.Statement.GuardBanded),
                 ]));
         }
 
@@ -509,16 +509,16 @@ internal static class ReportHtml
             html.Append("<p class=\"banner stop\">The run is incomplete: no statement of conformity is made for the UUT. What follows is what the points measured showed.</p>");
         }
 
-        html.Append(CultureInfo.InvariantCulture, $"<p id=\"verdict\">Over {c.Points} judged points the UUT's reading error is {VerdictTag(c.SimpleAcceptance)} under simple acceptance, and {VerdictTag(c.GuardBanded)} with the guard band. The smallest test uncertainty ratio is {E(N(c.MinimumTestUncertaintyRatio, "0.##"))}.</p>");
+        html.Append(CultureInfo.InvariantCulture, $"<p id=\"verdict\">Over {c.Points} judged points the UUT's reading error is {VerdictTag(c.SimpleAcceptance)} under simple acceptance, and {VerdictTag(c.GuardBanded)} with the guard band. The smallest test uncertainty ratio is {E(N(c.MinimumTestUncertaintyRatio, 3))}.</p>");
         html.Append("<h3>Decision rule</h3><ul>")
             .Append("<li><strong>Simple acceptance</strong> (ILAC-G8:09/2019, guard band w = 0, risk shared): a point conforms when |error| ≤ L, L = the specification ±(% of reading + counts) at that reading.</li>")
             .Append("<li><strong>Guard-banded</strong> (w = U): within specification when |error| ≤ L − U; within specification inside the guard band when L − U &lt; |error| ≤ L; outside specification inside the guard band when L &lt; |error| ≤ L + U; outside specification beyond L + U.</li>")
-            .Append(CultureInfo.InvariantCulture, $"<li>U is the expanded uncertainty of the error at a coverage probability of {E(N(result.CoverageProbability * 100, "0.##"))} %; TUR = L / U. The UUT's verdict is its worst point's.</li></ul>");
+            .Append(CultureInfo.InvariantCulture, $"<li>U is the expanded uncertainty of the error at a coverage probability of {E(N(result.CoverageProbability * 100, 3))} %; TUR = L / U. The UUT's verdict is its worst point's.</li></ul>");
         Table(html, "data", ["range", "points", "simple acceptance", "guard band w = U", "smallest TUR"],
             result.Ranges.Where(r => r.Conformity is not null).Select(r => (IReadOnlyList<string>)
             [
                 E(r.Name), E(r.Conformity!.Points.ToString(CultureInfo.InvariantCulture)), VerdictTag(r.Conformity.SimpleAcceptance), VerdictTag(r.Conformity.GuardBanded),
-                E(N(r.Conformity.MinimumTestUncertaintyRatio, "0.##")),
+                E(N(r.Conformity.MinimumTestUncertaintyRatio, 3)),
             ]));
         html.Append("</section>\n");
     }

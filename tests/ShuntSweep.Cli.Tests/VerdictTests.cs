@@ -127,6 +127,20 @@ public sealed class VerdictTests
     }
 
     [Fact]
+    public async Task ReportPdf_WithoutABrowser_SaysWhatItNeeds_AndKeepsTheHtml()
+    {
+        var dir = Some.TempDirectory();
+        Assert.Equal(0, await Cli.RunAsync("run", Repo.File("sequences/ci-smoke.yaml"), "--out", dir, "--no-archive"));
+
+        var (exit, _, cautions) = await Cli.RunProcessAsync(new Dictionary<string, string?> { ["SHUNTSWEEP_BROWSER"] = "/nonexistent/chromium" }, "report", dir, "--pdf");
+
+        Assert.Equal(6, exit);
+        Assert.Contains("needs a Chromium browser", cautions, StringComparison.Ordinal);
+        Assert.True(File.Exists(Path.Combine(dir, "report.html")));
+        Assert.False(File.Exists(Path.Combine(dir, "report.pdf")));
+    }
+
+    [Fact]
     public async Task UnsettledPoint_IsFlagged_InResultScreenAndReport_AndSaidToBeUsedInTheFit()
     {
         // The inspection's 10A sweep, allowed only 2 s (instead of 20 s) for the heating fuse: its 8 A point cannot settle in that time.

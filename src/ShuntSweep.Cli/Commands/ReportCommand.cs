@@ -17,7 +17,11 @@ internal static class ReportCommand
         {
             Description = $"With --record: an SQLite file, an SQLite connection string (Data Source=...) or a PostgreSQL connection string (Host=...); default ${ArchiveLocation.EnvironmentVariable}, else {ArchiveLocation.DefaultSqlitePath}.",
         };
-        var command = new Command("report", "Write report.html (one self-contained file) and plots/ (PNG and SVG) for a run directory.") { dirArg, recordOpt, archiveOpt };
+        var pdfOpt = new Option<bool>("--pdf")
+        {
+            Description = $"Also print the report to report.pdf (A4, page x of y) with a headless Chromium: /usr/bin/chromium, or the browser ${PdfPrinter.BrowserVariable} names.",
+        };
+        var command = new Command("report", "Write report.html (one self-contained file) and plots/ (PNG and SVG) for a run directory.") { dirArg, recordOpt, archiveOpt, pdfOpt };
         command.SetAction((parse, ct) => Terminal.GuardAsync(async () =>
         {
             try
@@ -25,6 +29,23 @@ internal static class ReportCommand
                 var dir = parse.GetValue(dirArg)!;
                 var path = RunReport.Write(dir);
                 AnsiConsole.MarkupLineInterpolated($"Report: {path}");
+                if (parse.GetValue(pdfOpt))
+                {
+                    if (PdfPrinter.FindBrowser() is not { } browser)
+                    {
+                        return Terminal.Fail($"No PDF: printing needs a Chromium browser (Debian: apt-get install chromium) or ${PdfPrinter.BrowserVariable} naming one. The HTML report is written: {path}", ExitCodes.RecordFailed);
+                    }
+
+                    try
+                    {
+                        var pdf = await PdfPrinter.PrintAsync(path, Path.ChangeExtension(path, ".pdf"), browser, ct);
+                        AnsiConsole.MarkupLineInterpolated($"PDF: {pdf}");
+                    }
+                    catch (IOException ex)
+                    {
+                        return Terminal.Fail($"No PDF: {ex.Message} The HTML report is written: {path}", ExitCodes.RecordFailed);
+                    }
+                }
                 if (parse.GetValue(recordOpt))
                 {
                     var location = ArchiveLocation.Resolve(parse.GetValue(archiveOpt));

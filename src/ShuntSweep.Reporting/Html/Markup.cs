@@ -55,6 +55,26 @@ internal static class Markup
     /// <summary>A verdict as a coloured tag.</summary>
     public static string VerdictTag(ConformityVerdict verdict) => $"<span class=\"tag {VerdictClass(verdict)}\">{E(Verdict(verdict))}</span>";
 
+    /// <summary>A verdict as words led by a symbol that survives black-and-white printing: ✓ within, ◔/◕ inside the guard band, ✗ outside.</summary>
+    public static string VerdictWord(ConformityVerdict verdict)
+    {
+        var symbol = verdict switch
+        {
+            ConformityVerdict.Pass => "✓",
+            ConformityVerdict.ConditionalPass => "◔",
+            ConformityVerdict.ConditionalFail => "◕",
+            _ => "✗",
+        };
+        return $"<span class=\"word {VerdictClass(verdict)}\">{symbol} {E(Verdict(verdict))}</span>";
+    }
+
+    /// <summary>A current to the decimal place of the last of the two digits of <paramref name="expandedUncertainty"/> (GUM 7.2.6), so
+    /// that the reference, the reading and their difference are read at one place.</summary>
+    public static string AtPlaceOf(double amperes, double expandedUncertainty) =>
+        double.IsFinite(expandedUncertainty) && expandedUncertainty > 0
+            ? QuantityFormatter.FormatAtResolution(amperes, Math.Pow(10, Math.Floor(Math.Log10(expandedUncertainty)) - 1), SiUnit.Ampere)
+            : Q(amperes, SiUnit.Ampere, 6);
+
     /// <summary>Appends a table: the header cells are escaped, the row cells are HTML already.</summary>
     public static void Table(StringBuilder html, string cssClass, IReadOnlyList<string> headers, IEnumerable<IReadOnlyList<string>> rows)
     {

@@ -21,25 +21,28 @@ internal static class ReportHtml
         var title = m is null ? "Burden-voltage characterisation" : $"Burden-voltage characterisation — {m.UutManufacturer} {m.UutModel} s/n {m.UutSerial}";
         html.Append("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">")
             .Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">")
-            .Append("<title>").Append(E(title)).Append("</title><style>").Append(ReportStyle.Css).Append("</style></head><body>\n");
+            .Append("<title>").Append(E(title)).Append("</title><style>").Append(ReportStyle.Css).Append(ReportStyle.PageFooter(run.ReportId)).Append("</style></head><body>\n");
         Header(html, run);
-        html.Append("<main>\n");
+        html.Append("<main>\n<div class=\"certificate\" id=\"certificate\">\n");
         Outcome(html, run);
         VerdictBanner(html, run.Result);
         Record(html, run);
         Uut(html, run);
         Bench(html, run, showPaths);
-        Safety(html, run);
         Ranges(html, run.Result);
+        Conformity(html, run.Result);
+        Safety(html, run);
+        html.Append("</div>\n<div class=\"appendix\" id=\"appendix\"><h2 class=\"part\">Engineering appendix</h2>")
+            .Append("<p class=\"note\">What the certificate above rests on: each range's points and fitted parameters, the model choice, the separation of fuse and shunt, the thermal holds, the plots, the uncertainty budgets point by point, the raw files and the run log.</p>\n");
+        RangeDetails(html, run.Result);
         Models(html, run.Result);
         Decomposition(html, run.Result);
         Thermal(html, run.Result);
         PlotSection(html, plots);
         Budget(html, run.Result);
-        Conformity(html, run.Result);
         Files(html, run, plots);
         RunLog(html, run);
-        html.Append("</main>\n<footer>Generated ")
+        html.Append("</div>\n</main>\n<footer>Generated ")
             .Append(E(generatedAt.ToUniversalTime().ToString("yyyy-MM-dd HH:mm:ss 'UTC'", CultureInfo.InvariantCulture)))
             .Append(" by ").Append(E(software)).Append(showPaths ? $" from the records in {E(run.Directory)}" : " from the run's records")
             .Append(". Resistances are small-signal values (slope of drop against current at zero current).</footer>\n</body></html>\n");
@@ -306,6 +309,12 @@ internal static class ReportHtml
             ]));
         html.Append("<p class=\"note\">Resistance is the small-signal slope of drop against current at zero current: the chosen model's own, or an Akaike-weighted average where another surviving hypothesis is within 2 AICc units (the method is named under the value, and its uncertainty then covers the choice of model); the burden at full scale is what the chosen model predicts there. ")
             .Append("Each ± U is the expanded uncertainty stored in result.json, with its coverage factor k from Student's t at the effective degrees of freedom.</p>");
+        html.Append("</section>\n");
+    }
+
+    private static void RangeDetails(StringBuilder html, CharacterisationResult result)
+    {
+        html.Append("<section id=\"range-details\"><h2>Range details</h2>");
         var outliers = result.Ranges.SelectMany(r => r.Points.Where(p => p.Outlier).Select(p => (r, p))).ToList();
         if (outliers.Count > 0)
         {
@@ -482,13 +491,21 @@ internal static class ReportHtml
                     ? E($"{mc.Trials} trials: u = {Q(mc.StandardUncertainty, SiUnit.Ampere, 3)}, interval [{Q(mc.Low, SiUnit.Ampere, 3)}, {Q(mc.High, SiUnit.Ampere, 3)}]; ") + (mc.AgreesWithGum ? "<span class=\"tag ok\">agrees with the GUM budget</span>" : "<span class=\"tag near\">differs from the GUM budget: the decision uses the Monte Carlo interval</span>")
                     : "not run"),
             ]);
-            html.Append(CultureInfo.InvariantCulture, $"<h3>{E(r.Name)}: every point</h3>");
-            Table(html, "data", ["step", "reference", "reading", "error", "U", "limit ±L", "TUR", "P(conform)", "simple acceptance", "guard band w = U"],
+            html.Append(CultureInfo.InvariantCulture, $"<h3>{E(r.Name)}: every point, burden first</h3>");
+            var drops = r.Points.ToDictionary(p => p.Step, p => p.DropVolts);
+            Table(html, "data points", ["step", "current through the UUT", "burden (drop across the jacks)", "UUT reading", "reading error ± U", "allowed ±L (TUR)", "chance |error| ≤ L", "verdict"],
                 points.Select(p => (IReadOnlyList<string>)
                 [
-                    E(p.Step.ToString(CultureInfo.InvariantCulture)), E(Q(p.ReferenceA, SiUnit.Ampere, 5)), E(Q(p.ReadingA, SiUnit.Ampere, 5)), E(Q(p.ErrorA, SiUnit.Ampere, 3)),
-                    E(QuantityFormatter.FormatUncertainty(p.Statement.ExpandedUncertainty, SiUnit.Ampere) + (p.DecidedOn == "monte-carlo" ? " (Monte Carlo)" : string.Empty)), E(Q(p.Statement.ToleranceLimit, SiUnit.Ampere, 3)), E(N(p.Statement.TestUncertaintyRatio, 3)),
-                    E(N(p.Statement.ProbabilityOfConformance, 4)), VerdictTag(p.Statement.SimpleAcceptance), VerdictTag(p.Statement.GuardBanded),
+                    E(p.Step.ToString(CultureInfo.InvariantCulture)),
+                    E(AtPlaceOf(p.ReferenceA, p.Statement.ExpandedUncertainty)),
+                    E(drops.TryGetValue(p.Step, out var drop) ? Q(drop, SiUnit.Volt, 5) : "—"),
+                    E(AtPlaceOf(p.ReadingA, p.Statement.ExpandedUncertainty)),
+                    E(p.DecidedOn == "monte-carlo" && p.MonteCarlo is { StandardUncertainty: > 0 } mcp
+                        ? QuantityFormatter.FormatExpanded(p.ErrorA, p.Statement.ExpandedUncertainty, p.Statement.ExpandedUncertainty / mcp.StandardUncertainty, SiUnit.Ampere) + " (Monte Carlo)"
+                        : QuantityFormatter.FormatExpanded(p.ErrorA, p.Statement.ExpandedUncertainty, p.Budget.CoverageFactor, SiUnit.Ampere)),
+                    E($"{Q(p.Statement.ToleranceLimit, SiUnit.Ampere, 3)} ({N(p.Statement.TestUncertaintyRatio, 3)})"),
+                    E(QuantityFormatter.FormatPercent(p.Statement.ProbabilityOfConformance, 3)),
+                    VerdictWord(p.Statement.SimpleAcceptance) + (p.Statement.GuardBanded != p.Statement.SimpleAcceptance ? $"<br><span class=\"muted\">guard band: {VerdictWord(p.Statement.GuardBanded)}</span>" : string.Empty),
                 ]));
         }
 

@@ -26,6 +26,9 @@ internal static class ReportStyle
         .tag.near { background:#fff1d6; color:#8a5a00; }
         .tag.near-out { background:#ffe2cc; color:#8f3b00; }
         .tag.out { background:#f8d7d3; color:#8e1f14; }
+        .word { font-weight:bold; white-space:nowrap; }
+        .word.out { color:#8e1f14; } .word.near-out { color:#8f3b00; } .word.near { color:#6d4a00; } .word.ok { color:#19633c; }
+        table.points td:nth-child(3) { font-weight:bold; }
         .banner { border-left:6px solid var(--accent); background:#fff7ec; padding:10px 14px; margin:10px 0; }
         .banner.stop { border-color:#b5443b; background:#fdeeee; }
         .verdict { border:2px solid var(--ink); padding:8px 14px; margin:10px 0; font-size:15px; background:var(--paper); }
@@ -36,14 +39,32 @@ internal static class ReportStyle
         figcaption { color:var(--muted); font-size:13px; margin-top:4px; }
         a { color:#0f6e7a; }
         footer { max-width:1040px; margin:0 auto; padding:0 28px 30px; color:var(--muted); font-size:12px; }
-        @page { size: A4; margin: 14mm 12mm; }
+        h2.part { font-size:21px; border-bottom:3px solid var(--accent); margin-top:28px; }
+        @page { size: A4; margin: 14mm 12mm 16mm; }
         @media print {
-          body { background:#fff; font-size:11px; }
+          body { background:#fff; font-size:10.5px; }
+          table { font-size:10px; margin:4px 0 6px; }
+          th, td { padding:2px 5px; }
+          h2 { font-size:15px; margin:2px 0 6px; }
+          header.band { padding:12px 18px 10px; }
           header.band { -webkit-print-color-adjust:exact; print-color-adjust:exact; }
           main { max-width:none; padding:0; }
           section { border:none; border-top:1px solid var(--line); border-radius:0; padding:8px 0; break-inside:auto; }
-          table, tr { break-inside:avoid; }
+          h2, h3 { break-after:avoid-page; break-inside:avoid; }
+          h2 + *, h3 + * { break-before:avoid-page; }
+          tr, figure { break-inside:avoid; }
+          thead { display:table-header-group; }
+          .appendix { break-before:page; }
+          footer { padding:0; }
           .tag, thead th { -webkit-print-color-adjust:exact; print-color-adjust:exact; }
         }
         """;
+
+    /// <summary>The printed page's footer: the report id (when the run has one) on the left, "page x of y" on the right (CSS paged-media margin boxes).</summary>
+    public static string PageFooter(string? reportId) =>
+        "@page { @bottom-left { content: \"" + (reportId is null ? "Burden-voltage report" : "Report " + CssString(reportId)) + "\"; font: 9px \"DejaVu Sans\", sans-serif; color: #5b6b75; } "
+        + "@bottom-right { content: \"page \" counter(page) \" of \" counter(pages); font: 9px \"DejaVu Sans\", sans-serif; color: #5b6b75; } }";
+
+    private static string CssString(string text) =>
+        string.Concat(text.Select(c => c is '"' or '\\' or < ' ' ? $"\\{(int)c:x} " : c.ToString()));
 }

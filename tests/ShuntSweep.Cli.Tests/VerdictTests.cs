@@ -127,6 +127,24 @@ public sealed class VerdictTests
     }
 
     [Fact]
+    public async Task AsFoundAndAsLeftRuns_ArePairedInHistory()
+    {
+        var archive = Path.Combine(Some.TempDirectory(), "archive.db");
+        foreach (var (condition, seed) in new[] { ("as-found", "1"), ("as-left", "2") })
+        {
+            Assert.Equal(0, await Cli.RunAsync("run", Repo.File("sequences/ci-smoke.yaml"), "--out", Some.TempDirectory(), "--seed", seed, "--condition", condition, "--archive", archive));
+        }
+
+        var (exit, history, _) = await Cli.RunProcessAsync(new Dictionary<string, string?> { ["COLUMNS"] = "220" }, "history", "TW18-240417", "--archive", archive);
+
+        Assert.True(exit == 0, history);
+        Assert.Contains("as-found", history, StringComparison.Ordinal);
+        Assert.Contains("as-left", history, StringComparison.Ordinal);
+        Assert.Matches(@"As found \d{4}-\d{2}-\d{2} \d{2}:\d{2} → as left \d{4}-\d{2}-\d{2} \d{2}:\d{2}", history);
+        Assert.Matches(@"60mA\s*│ 12\.3\d* Ω ± .* │ 12\.3\d* Ω ± ", history);
+    }
+
+    [Fact]
     public async Task ReportPdf_WithoutABrowser_SaysWhatItNeeds_AndKeepsTheHtml()
     {
         var dir = Some.TempDirectory();

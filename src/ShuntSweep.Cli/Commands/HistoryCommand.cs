@@ -56,7 +56,7 @@ internal static class HistoryCommand
                 return Terminal.Fail($"The archive ({location.Display}) has no runs of serial '{serial}'.", ExitCodes.InvalidInput);
             }
 
-            var runs = new Table().Title($"Runs of {Markup.Escape(serial)} in {Markup.Escape(location.Display)}").AddColumns("run", "start (UTC)", "model", "asset", "bench", "ended", "verdict");
+            var runs = new Table().Title($"Runs of {Markup.Escape(serial)} in {Markup.Escape(location.Display)}").AddColumns("run", "start (UTC)", "model", "asset", "bench", "condition", "ended", "verdict");
             foreach (var r in history.Runs)
             {
                 runs.AddRow(
@@ -65,6 +65,7 @@ internal static class HistoryCommand
                     Markup.Escape($"{r.Manufacturer} {r.Model}"),
                     Markup.Escape(r.AssetId ?? "—"),
                     Markup.Escape(r.BenchName) + (r.Simulated ? " (sim)" : string.Empty),
+                    Markup.Escape(r.Condition ?? "—"),
                     Markup.Escape(r.RunEnd is null ? "—" : ShuntSweep.Reporting.RunEndWords.Describe(r.RunEnd)),
                     Markup.Escape(VerdictOf(r)));
             }
@@ -87,6 +88,28 @@ internal static class HistoryCommand
                 }
 
                 AnsiConsole.Write(table);
+            }
+
+            foreach (var (found, left) in history.AsFoundAsLeftPairs())
+            {
+                var pair = new Table().Title($"As found {Markup.Escape(found.Start.UtcDateTime.ToString("yyyy-MM-dd HH:mm", CultureInfo.InvariantCulture))} → as left {Markup.Escape(left.Start.UtcDateTime.ToString("yyyy-MM-dd HH:mm", CultureInfo.InvariantCulture))}")
+                    .AddColumns("range", "as found: resistance ± u", "run verdict", "as left: resistance ± u", "run verdict", "change");
+                foreach (var range in history.Ranges)
+                {
+                    var before = range.Readings.FirstOrDefault(x => x.RunId == found.RunId);
+                    var after = range.Readings.FirstOrDefault(x => x.RunId == left.RunId);
+                    pair.AddRow(
+                        Markup.Escape(range.Range),
+                        Markup.Escape(before is null ? "not measured" : QuantityFormatter.Format(before.ResistanceOhms, before.StandardUncertaintyOhms, SiUnit.Ohm)),
+                        Markup.Escape(VerdictOf(found)),
+                        Markup.Escape(after is null ? "not measured" : QuantityFormatter.Format(after.ResistanceOhms, after.StandardUncertaintyOhms, SiUnit.Ohm)),
+                        Markup.Escape(VerdictOf(left)),
+                        Markup.Escape(before is not null && after is not null && before.ResistanceOhms != 0
+                            ? QuantityFormatter.FormatPercent((after.ResistanceOhms - before.ResistanceOhms) / before.ResistanceOhms, 3, showSign: true)
+                            : "—"));
+                }
+
+                AnsiConsole.Write(pair);
             }
 
             if (parse.GetValue(plotOpt) is { } stem)

@@ -12,6 +12,7 @@ namespace ShuntSweep.Reporting.Archive;
 /// <param name="RunEnd">How the run ended (from its event log), when known.</param>
 /// <param name="Verdict">The run's verdict token (<c>pass</c>, <c>fail</c>, <c>not-judged</c>, <c>incomplete</c>); older archives hold the worst
 /// simple-acceptance verdict (<c>Pass</c>, <c>Fail</c>).</param>
+/// <param name="Condition">Whether the run recorded the UUT <c>as-found</c> or <c>as-left</c>, when the operator said so.</param>
 public sealed record ArchivedRun(
     string RunId,
     DateTimeOffset Start,
@@ -22,7 +23,8 @@ public sealed record ArchivedRun(
     string BenchName,
     bool Simulated,
     string? RunEnd,
-    string? Verdict);
+    string? Verdict,
+    string? Condition = null);
 
 /// <summary>One range's resistance in one archived run.</summary>
 /// <param name="RunId">The run.</param>
@@ -42,4 +44,27 @@ public sealed record RangeHistory(string Range, string Jack, IReadOnlyList<Range
 /// <param name="Serial">The serial number asked for.</param>
 /// <param name="Runs">Its runs, oldest first (ties broken by run id).</param>
 /// <param name="Ranges">Each range's resistance over time, in the order the ranges were first measured.</param>
-public sealed record RunHistory(string Serial, IReadOnlyList<ArchivedRun> Runs, IReadOnlyList<RangeHistory> Ranges);
+public sealed record RunHistory(string Serial, IReadOnlyList<ArchivedRun> Runs, IReadOnlyList<RangeHistory> Ranges)
+{
+    /// <summary>Each as-left run with the as-found run it follows: the latest as-found run before it that no earlier as-left run has taken.</summary>
+    /// <remarks>An adjustment is judged by the pair: what the unit was on arrival, and what it is when it leaves.</remarks>
+    public IReadOnlyList<(ArchivedRun AsFound, ArchivedRun AsLeft)> AsFoundAsLeftPairs()
+    {
+        var pairs = new List<(ArchivedRun, ArchivedRun)>();
+        var open = new Stack<ArchivedRun>();
+        foreach (var run in Runs)
+        {
+            if (run.Condition == "as-found")
+            {
+                open.Clear();
+                open.Push(run);
+            }
+            else if (run.Condition == "as-left" && open.TryPop(out var found))
+            {
+                pairs.Add((found, run));
+            }
+        }
+
+        return pairs;
+    }
+}

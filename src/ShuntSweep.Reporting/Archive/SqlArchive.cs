@@ -119,7 +119,7 @@ internal sealed class SqlArchive(ArchiveLocation location, TimeProvider time) : 
         }
 
         await tx.CommitAsync(ct).ConfigureAwait(false);
-        return new ArchivedRun(runId, manifest.Start, manifest.UutManufacturer, manifest.UutModel, manifest.UutSerial, manifest.UutAssetId, manifest.BenchName, manifest.Simulated, runEnd, verdict);
+        return new ArchivedRun(runId, manifest.Start, manifest.UutManufacturer, manifest.UutModel, manifest.UutSerial, manifest.UutAssetId, manifest.BenchName, manifest.Simulated, runEnd, verdict, manifest.Context?.Condition);
     }
 
     /// <inheritdoc />
@@ -130,7 +130,7 @@ internal sealed class SqlArchive(ArchiveLocation location, TimeProvider time) : 
         await using var connection = await OpenAsync(ct).ConfigureAwait(false);
         var runs = new List<ArchivedRun>();
         await using (var cmd = Command(connection, null, """
-            SELECT run_id, started_at, uut_manufacturer, uut_model, uut_serial, uut_asset_id, bench_name, simulated, run_end, verdict
+            SELECT run_id, started_at, uut_manufacturer, uut_model, uut_serial, uut_asset_id, bench_name, simulated, run_end, verdict, manifest_json
             FROM runs WHERE uut_serial = @serial
             """, ("serial", serial)))
         await using (var reader = await cmd.ExecuteReaderAsync(ct).ConfigureAwait(false))
@@ -139,7 +139,8 @@ internal sealed class SqlArchive(ArchiveLocation location, TimeProvider time) : 
             {
                 runs.Add(new ArchivedRun(
                     reader.GetString(0), ParseTimestamp(reader.GetString(1)), reader.GetString(2), reader.GetString(3), reader.GetString(4),
-                    Text(reader, 5), reader.GetString(6), Convert.ToInt64(reader.GetValue(7), CultureInfo.InvariantCulture) != 0, Text(reader, 8), Text(reader, 9)));
+                    Text(reader, 5), reader.GetString(6), Convert.ToInt64(reader.GetValue(7), CultureInfo.InvariantCulture) != 0, Text(reader, 8), Text(reader, 9),
+                    ConditionOf(Text(reader, 10))));
             }
         }
 
@@ -169,6 +170,28 @@ internal sealed class SqlArchive(ArchiveLocation location, TimeProvider time) : 
             .Select(x => x.History)
             .ToList();
         return new RunHistory(serial, runs, ranges);
+    }
+
+    /// <summary>The as-found / as-left condition the run's stored manifest records (null for older manifests and runs without one).</summary>
+    private static string? ConditionOf(string? manifestJson)
+    {
+        if (manifestJson is null)
+        {
+            return null;
+        }
+
+        try
+        {
+            using var doc = System.Text.Json.JsonDocument.Parse(manifestJson);
+            return doc.RootElement.TryGetProperty("context", out var context) && context.ValueKind == System.Text.Json.JsonValueKind.Object
+                && context.TryGetProperty("condition", out var condition) && condition.ValueKind == System.Text.Json.JsonValueKind.String
+                ? condition.GetString()
+                : null;
+        }
+        catch (System.Text.Json.JsonException)
+        {
+            return null;
+        }
     }
 
     /// <inheritdoc />

@@ -77,7 +77,7 @@ public sealed class RecordTests
         var dir = Some.TempDirectory();
         Assert.Equal(0, await Cli.RunAsync("run", sequence, "--bench", bench, "--out", dir, "--no-archive", "--lab", lab, "--operator", "A. Lindqvist", "--humidity", "45 %", "--condition", "as-found"));
         var report = System.Net.WebUtility.HtmlDecode(File.ReadAllText(Path.Combine(dir, "report.html")));
-        foreach (var field in new[] { "Brightwater Test Lab, Unit 4, Quarry Road", "Fenmoor Instruments Ltd", "A. Lindqvist", "WI-CUR-018, version 3.2", "as-found", "23.0 °C", "45 %", "id=\"report-id\">SSR-", "Not yet approved" })
+        foreach (var field in new[] { "Brightwater Test Lab, Unit 4, Quarry Road", "Fenmoor Instruments Ltd", "A. Lindqvist", "WI-CUR-018, version 3.2", "as-found", "23 °C", "45 %", "id=\"report-id\">SSR-", "Not yet approved" })
         {
             Assert.Contains(field, report, StringComparison.Ordinal);
         }

@@ -159,7 +159,7 @@ internal static class ReportHtml
             ("Operator", Or(c?.Operator)),
             ("Procedure", m.ProcedureId is null ? "<span class=\"muted\">no id: sequence " + E(Path.GetFileName(m.SequenceFile)) + "</span>" : E($"{m.ProcedureId}{(m.ProcedureVersion is { } v ? $", version {v}" : string.Empty)}")),
             ("Condition of the UUT", Or(c?.Condition)),
-            ("Ambient temperature", c?.AmbientCelsius is { } t ? E($"{N(t, 3)} °C") + (m.Simulated ? " <span class=\"muted\">(simulated)</span>" : string.Empty) : Or(null)),
+            ("Ambient temperature", c?.AmbientCelsius is { } t ? E(Q(t, SiUnit.Celsius, 3)) + (m.Simulated ? " <span class=\"muted\">(simulated)</span>" : string.Empty) : Or(null)),
             ("Relative humidity", c?.RelativeHumidityPercent is { } h ? E($"{N(h, 3)} %") : Or(null)),
             ("Measured", E(m.Start.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture))),
             ("Software", E(m.Software)),

@@ -68,7 +68,7 @@ public sealed class BenchFileTests
     }
 
     [Theory]
-    [InlineData("ambient: 23 °C", "ambient: -300 °C", "above absolute zero", "-300 °C")]
+    [InlineData("simulation:\n  ambient: 23 °C", "simulation:\n  ambient: -300 °C", "above absolute zero", "-300 °C")]
     [InlineData("lineFrequency: 50 Hz", "lineFrequency: 0 Hz", "50 Hz or 60 Hz", "0 Hz")]
     [InlineData("fuse: { coldResistance: 0.3 ohm", "fuse: { coldResistance: -0.3 ohm", "expected > 0 Ω", "-0.3 ohm")]
     [InlineData("contacts: 5 mohm", "contacts: -5 mohm", "expected ≥ 0 Ω", "-5 mohm")]

@@ -29,6 +29,14 @@ public sealed partial class ReportPdfTests
         Assert.StartsWith("Engineering appendix", Body(pages[appendix]), StringComparison.Ordinal);
         Assert.Contains("Calibration record", string.Concat(pages.Take(appendix)), StringComparison.Ordinal);
         Assert.Contains("Statement of conformity", string.Concat(pages.Take(appendix)), StringComparison.Ordinal);
+
+        // Every field of the calibration record is on the certificate as Chromium renders it, stated or said to be not stated.
+        var certificate = string.Join(' ', pages.Take(appendix));
+        foreach (var field in new[] { "Report id", "Laboratory", "Customer", "Operator", "Procedure", "Condition of the UUT", "Ambient temperature", "Relative humidity",
+            "Measured", "Software", "Approval", "Unit under test", "Serial number", "Bench and instruments" })
+        {
+            Assert.Contains(field, certificate, StringComparison.Ordinal);
+        }
     }
 
     [Fact]
